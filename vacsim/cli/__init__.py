@@ -1,0 +1,37 @@
+"""Command-line skin: each command lives in its own module and registers on `app`."""
+
+from __future__ import annotations
+
+import sys
+
+from .app import app, err_console
+
+# Importing a command module registers its commands on `app`.
+from . import properties_cmd  # noqa: F401,E402  boil, fluid
+from . import run_cmd  # noqa: F401,E402  run
+from . import leak_cmd  # noqa: F401,E402  leak
+
+
+def main() -> None:
+    """Console-script entry point: one-line errors and exit code 2 for bad input."""
+    from ..errors import InputError, SolverError
+
+    try:
+        app(standalone_mode=False)
+    except InputError as exc:
+        err_console.print(f"vacsim: error: {exc}", markup=False, highlight=False, soft_wrap=True)
+        sys.exit(2)
+    except SolverError as exc:
+        err_console.print(f"vacsim: solver failed: {exc}", markup=False, highlight=False, soft_wrap=True)
+        sys.exit(1)
+    except SystemExit:
+        raise
+    except Exception as exc:  # click's own usage errors
+        import click
+
+        if isinstance(exc, click.exceptions.ClickException):
+            exc.show()
+            sys.exit(exc.exit_code)
+        if isinstance(exc, click.exceptions.Abort):
+            sys.exit(1)
+        raise
