@@ -17,21 +17,10 @@ def main() -> None:
     from ..errors import InputError, SolverError
 
     try:
-        app(standalone_mode=False)
+        app()
     except InputError as exc:
         err_console.print(f"vacsim: error: {exc}", markup=False, highlight=False, soft_wrap=True)
         sys.exit(2)
     except SolverError as exc:
         err_console.print(f"vacsim: solver failed: {exc}", markup=False, highlight=False, soft_wrap=True)
         sys.exit(1)
-    except SystemExit:
-        raise
-    except Exception as exc:  # click's own usage errors
-        import click
-
-        if isinstance(exc, click.exceptions.ClickException):
-            exc.show()
-            sys.exit(exc.exit_code)
-        if isinstance(exc, click.exceptions.Abort):
-            sys.exit(1)
-        raise

@@ -1,2 +1,11 @@
-"""(placeholder: commands to come)."""
-from .app import app  # noqa: F401
+"""`vacsim run` (placeholder until the rig model lands)."""
+
+from .app import app
+
+
+@app.command("version")
+def version() -> None:
+    """Print the vacsim version."""
+    from .. import __version__
+
+    print(__version__)
