@@ -7,7 +7,8 @@ import sys
 from .app import app, err_console
 
 # Importing a command module registers its commands on `app`.
-from . import properties_cmd  # noqa: F401,E402  boil, fluid
+from . import boil_cmd  # noqa: F401,E402  boil
+from . import fluid_cmd  # noqa: F401,E402  fluid
 from . import run_cmd  # noqa: F401,E402  run
 from . import leak_cmd  # noqa: F401,E402  leak
 
