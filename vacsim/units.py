@@ -101,7 +101,7 @@ def parse_quantity(
     value: str | float | int,
     kind: str,
     *,
-    where: str = "value",
+    where: str | None = "value",
     barometric_pressure: float | None = None,
 ) -> float:
     """Parse a quantity as written ("25 mbar", "4 L/min", "20 degC") into SI.
@@ -127,6 +127,11 @@ def parse_quantity(
     """
     if kind not in KINDS:
         raise KeyError(f"unknown kind of quantity {kind!r}")
+    if where is None:  # the caller (e.g. the scenario loader) prefixes the field's path itself
+        try:
+            return parse_quantity(value, kind, where="\0", barometric_pressure=barometric_pressure)
+        except InputError as exc:
+            raise InputError(str(exc).removeprefix("\0: ")) from None
     dim, si_unit = KINDS[kind]
     example = _EXAMPLES.get(kind, si_unit)
     if isinstance(value, bool) or not isinstance(value, (str, int, float)):

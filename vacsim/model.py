@@ -1,0 +1,359 @@
+"""The coupled rig model: state layout, controls, and the right-hand side of the ODE system.
+
+State vector (SI), one named slot each (see STATE):
+
+    pressure_pa          apparatus pressure p                       [Pa]
+    tub_temperature_k    tub liquid temperature T (well mixed)       [K]
+    ice_mass_kg          ice floating in the tub                     [kg]
+    water_mass_kg        liquid water in the tub (meltwater adds)    [kg]
+    pump_heat_j          cumulative pump heat into the tub           [J]
+    room_heat_j          cumulative heat from the room               [J]
+    melt_heat_j          cumulative heat taken up by melting ice     [J]
+    meltwater_heat_j     cumulative heat warming meltwater to T      [J]
+
+Gas side (DESIGN sec. 2): V dp/dt = Q_leak - S_eff (p - p_floor), S_eff the ejector's total
+speed in series with the hose, p_floor the tub fluid's vapor pressure plus the share of the
+suction the motive liquid's own released air takes. Heat side (DESIGN sec. 4):
+(m_liq c_p) dT/dt = P_pump + UA (T_amb - T) - q_melt - mdot_melt c_w (T - T_f).
+
+Everything the RHS needs is computed once in `build_rig` from a Scenario; `Controls` carries
+what the schedule changes (ambient, pump on/off, vent, ice piece count).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field, replace
+
+import numpy as np
+
+from . import constants as c
+from .components import ejector, feed_pump, hose, tub
+from .properties import air, fluid, ice
+from .scenario import Scenario
+
+STATE = (
+    "pressure_pa",
+    "tub_temperature_k",
+    "ice_mass_kg",
+    "water_mass_kg",
+    "pump_heat_j",
+    "room_heat_j",
+    "melt_heat_j",
+    "meltwater_heat_j",
+)
+IDX = {name: i for i, name in enumerate(STATE)}
+P, T, ICE, WATER, E_PUMP, E_ROOM, E_MELT, E_MELTWATER = range(len(STATE))
+
+# Ice below this mass counts as gone (the melt law's m^(2/3) is singular at zero).
+ICE_GONE_KG = 1e-6
+
+
+@dataclass(frozen=True)
+class Controls:
+    """What the schedule sets, constant between schedule entries."""
+
+    ambient_temperature: float  # K
+    pump_on: bool = True
+    vented: bool = False
+    ice_pieces: float = 0.0  # number of pieces the ice mass is spread over
+
+
+@dataclass(frozen=True)
+class Assumption:
+    """A default the model relies on, with its source (or 'estimate')."""
+
+    name: str
+    value: float | str
+    unit: str
+    source: str
+
+
+@dataclass(frozen=True)
+class Rig:
+    """Everything fixed about a rig and run, in SI, ready for the RHS."""
+
+    volume: float
+    leak_rate: float
+    barometric_pressure: float
+    hose_diameter: float
+    hose_length: float
+    glycol: str
+    glycol_mass: float
+    ua: float
+    ice_heat_transfer: float
+    ice_density: float
+    ice_piece_size: float
+    ice_temperature: float
+    motor_heat: float
+    # ejector
+    entrainment_ratio: float
+    cutoff_width: float
+    shutoff_pressure: float  # Pa (may be negative: jet not the limit)
+    measured_pressure: np.ndarray | None
+    measured_dry_air_speed: np.ndarray | None
+    measured_vapor_pressure: float
+    motive_degassing: float
+    # motive flow and pump pressure rise tabulated against suction pressure
+    suction_grid: np.ndarray
+    motive_flow_grid: np.ndarray
+    pump_rise_grid: np.ndarray
+    assumptions: tuple[Assumption, ...] = field(default=())
+
+    def motive_flow(self, suction_pressure):
+        """Motive flow at a suction pressure [m^3/s] (operating point, tabulated)."""
+        return np.interp(suction_pressure, self.suction_grid, self.motive_flow_grid)
+
+    def pump_rise(self, suction_pressure):
+        """Feed-pump pressure rise at the operating point [Pa]."""
+        return np.interp(suction_pressure, self.suction_grid, self.pump_rise_grid)
+
+
+def _pump_curve(s: Scenario):
+    fp = s.feed_pump
+    if fp.curve == "table":
+        flows = np.array([q for q, _ in fp.points])
+        rises = np.array([dp for _, dp in fp.points])
+        return lambda q: feed_pump.table_curve(q, flows, rises)
+    shape = feed_pump.CURVES[fp.curve]
+    return lambda q: shape(q, fp.shutoff_pressure, fp.free_flow)
+
+
+def build_rig(s: Scenario) -> Rig:
+    """Turn a validated scenario into the fixed data the RHS uses."""
+    tb, ej = s.tub, s.ejector
+    p_baro = s.barometric_pressure
+    t0 = s.initial_tub_temperature
+    rho0 = float(fluid.density(tb.glycol, tb.glycol_mass_fraction, t0))
+    liquid_mass = tb.liquid_volume * rho0
+    assumptions: list[Assumption] = []
+
+    if tb.ua is not None:
+        ua = tb.ua
+    else:
+        if tb.wall_area is not None:
+            area = tb.wall_area
+        else:
+            # An open, roughly cubic tub: four walls, bottom and the open surface all exchange heat.
+            side = tb.liquid_volume ** (1.0 / 3.0)
+            area = 6.0 * side**2
+            assumptions.append(Assumption("tub.wall_area", area, "m^2", "estimate: cube of the liquid volume, six faces"))
+        u = tb.wall_u if tb.wall_u is not None else tub.DEFAULT_WALL_U
+        if tb.wall_u is None:
+            assumptions.append(Assumption("tub.wall_u", u, "W/(m^2 K)", "estimate from Incropera et al. 2007 Table 1.1 (natural convection 2-25) + radiation"))
+        ua = tub.wall_ua(area, u)
+    h_ice = tb.ice_heat_transfer if tb.ice_heat_transfer is not None else tub.DEFAULT_ICE_HEAT_TRANSFER
+    if tb.ice_heat_transfer is None:
+        assumptions.append(Assumption("tub.ice_heat_transfer", h_ice, "W/(m^2 K)", "estimate: low end of forced convection of liquids, Incropera et al. 2007 Table 1.1"))
+
+    curve = _pump_curve(s)
+    # Motive flow depends weakly on suction pressure through the nozzle's pressure drop.
+    suction_grid = np.linspace(0.0, p_baro, 65)
+    flows, rises = [], []
+    for ps in suction_grid:
+        q, dp = feed_pump.operating_point(curve, ej.nozzle_diameter, rho0, p_baro - ps, ej.nozzle_loss)
+        flows.append(q)
+        rises.append(dp)
+    flows, rises = np.array(flows), np.array(rises)
+
+    if ej.measured is None:
+        # Shut-off: the nozzle inlet pressure is that of the operating point at suction ~ shut-off.
+        p_shut = 0.0
+        for _ in range(4):
+            inlet = p_baro + float(np.interp(max(p_shut, 0.0), suction_grid, rises))
+            p_shut = float(ejector.shutoff_pressure(inlet, p_baro, ej.area_ratio, ej.nozzle_loss, ej.throat_loss, ej.diffuser_loss, ej.diffuser_area_ratio))
+        measured_p = s_air = None
+        pv_meas = 0.0
+        if "entrainment_ratio" not in s.ejector.model_fields_set:
+            assumptions.append(Assumption("ejector.entrainment_ratio", ej.entrainment_ratio, "-", "estimate: middle of 0.5-1.5 (Cunningham & Dopkin 1974); calibrate with vacsim fit"))
+        for name in ("area_ratio", "nozzle_loss", "throat_loss", "diffuser_loss", "diffuser_area_ratio"):
+            if name not in s.ejector.model_fields_set:
+                assumptions.append(Assumption(f"ejector.{name}", getattr(ej, name), "-", "Cunningham 1974; Karassik et al., Pump Handbook 2001, ch. 4 (typical value)"))
+        if "cutoff_width" not in s.ejector.model_fields_set:
+            assumptions.append(Assumption("ejector.cutoff_width", ej.cutoff_width, "Pa", "estimate (from memory: ~5 mbar)"))
+    else:
+        p_shut = -math.inf
+        measured_p = np.array([p for p, _ in ej.measured])
+        s_air = np.array([v for _, v in ej.measured])
+        pv_meas = float(fluid.vapor_pressure("none", 0.0, ej.measured_at))
+        if measured_p[0] <= pv_meas:
+            from .errors import InputError
+
+            raise InputError(
+                f"ejector.measured: the lowest point ({measured_p[0] / 100:.1f} mbar) is at or below the vapor pressure of water at measured_at"
+            )
+    if "motive_degassing" not in s.ejector.model_fields_set:
+        assumptions.append(Assumption("ejector.motive_degassing", ej.motive_degassing, "-", "estimate (from memory: 0.01-0.1 of the motive liquid's dissolved air released at suction)"))
+    if "ice_piece_size" not in tb.model_fields_set and tb.ice > 0:
+        assumptions.append(Assumption("tub.ice_piece_size", tb.ice_piece_size, "m", "common practice: ice cube edge"))
+    if s.run.barometric_pressure is None and s.run.altitude is None:
+        assumptions.append(Assumption("run.barometric_pressure", c.STANDARD_ATMOSPHERE, "Pa", "standard atmosphere (CGPM 1954)"))
+    assumptions.append(Assumption("motive liquid density", rho0, "kg/m^3", "tub fluid at its initial temperature, held for the operating point"))
+
+    return Rig(
+        volume=s.apparatus.volume,
+        leak_rate=s.apparatus.leak_rate,
+        barometric_pressure=p_baro,
+        hose_diameter=s.hose.inner_diameter,
+        hose_length=s.hose.length,
+        glycol=tb.glycol,
+        glycol_mass=liquid_mass * tb.glycol_mass_fraction,
+        ua=ua,
+        ice_heat_transfer=h_ice,
+        ice_density=float(ice.density(c.ZERO_CELSIUS)),
+        ice_piece_size=tb.ice_piece_size,
+        ice_temperature=tb.ice_temperature,
+        motor_heat=s.feed_pump.motor_heat,
+        entrainment_ratio=ej.entrainment_ratio,
+        cutoff_width=ej.cutoff_width,
+        shutoff_pressure=p_shut,
+        measured_pressure=measured_p,
+        measured_dry_air_speed=s_air,
+        measured_vapor_pressure=pv_meas,
+        motive_degassing=ej.motive_degassing,
+        suction_grid=suction_grid,
+        motive_flow_grid=flows,
+        pump_rise_grid=rises,
+        assumptions=tuple(assumptions),
+    )
+
+
+def initial_state(s: Scenario, rig: Rig) -> np.ndarray:
+    """State vector at t = 0."""
+    tb = s.tub
+    t0 = s.initial_tub_temperature
+    rho0 = float(fluid.density(tb.glycol, tb.glycol_mass_fraction, t0))
+    y = np.zeros(len(STATE))
+    y[P] = s.initial_pressure
+    y[T] = t0
+    y[ICE] = tb.ice
+    y[WATER] = tb.liquid_volume * rho0 * (1.0 - tb.glycol_mass_fraction)
+    return y
+
+
+def initial_controls(s: Scenario, rig: Rig) -> Controls:
+    """Controls at t = 0 (pump on, apparatus closed)."""
+    pieces = tub.ice_piece_count(s.tub.ice, rig.ice_piece_size, rig.ice_density) if s.tub.ice > 0 else 0.0
+    return Controls(ambient_temperature=s.run.ambient_temperature, pump_on=True, vented=False, ice_pieces=pieces)
+
+
+def apply_entry(entry, controls: Controls, y: np.ndarray, rig: Rig) -> tuple[Controls, np.ndarray]:
+    """Apply one schedule entry at its time: new controls and a (possibly jumped) state."""
+    y = y.copy()
+    changes = {}
+    if entry.add_ice:
+        changes["ice_pieces"] = controls.ice_pieces + tub.ice_piece_count(entry.add_ice, rig.ice_piece_size, rig.ice_density)
+        y[ICE] = max(y[ICE], 0.0) + entry.add_ice
+    if entry.ambient_temperature is not None:
+        changes["ambient_temperature"] = entry.ambient_temperature
+    if entry.pump is not None:
+        changes["pump_on"] = entry.pump == "on"
+    if entry.vent is not None:
+        changes["vented"] = bool(entry.vent)
+        if entry.vent:
+            y[P] = rig.barometric_pressure
+    if y[ICE] <= ICE_GONE_KG:
+        changes["ice_pieces"] = 0.0 if not entry.add_ice else changes.get("ice_pieces", controls.ice_pieces)
+    return replace(controls, **changes), y
+
+
+@dataclass(frozen=True)
+class Fluxes:
+    """Every rate and derived quantity at one state (scalars or arrays alike)."""
+
+    glycol_mass_fraction: object
+    freezing_point_k: object
+    vapor_pressure_pa: object
+    floor_pressure_pa: object
+    motive_flow_m3_s: object
+    ejector_speed_m3_s: object
+    hose_conductance_m3_s: object
+    effective_speed_m3_s: object
+    gas_load_pa_m3_s: object
+    pump_heat_w: object
+    room_heat_w: object
+    melt_heat_w: object
+    meltwater_heat_w: object
+    melt_rate_kg_s: object
+    heat_capacity_j_k: object
+
+
+def ejector_total_speed(rig: Rig, suction_pressure, motive_flow):
+    """S_tot at a suction pressure [m^3/s], by the momentum model or the measured curve."""
+    if rig.measured_pressure is not None:
+        return ejector.total_speed_from_measured(suction_pressure, rig.measured_pressure, rig.measured_dry_air_speed, rig.measured_vapor_pressure)
+    return ejector.total_speed(motive_flow, rig.entrainment_ratio, suction_pressure, rig.shutoff_pressure, rig.cutoff_width)
+
+
+def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
+    """All rates at state `y` (columns of an array of states work too)."""
+    p, temp, m_ice, m_water = y[P], y[T], np.maximum(y[ICE], 0.0), y[WATER]
+    m_liquid = m_water + rig.glycol_mass
+    w = rig.glycol_mass / m_liquid
+    t_f = fluid.freezing_point(rig.glycol, w)
+    p_v = fluid.vapor_pressure(rig.glycol, w, temp)
+
+    if controls.pump_on:
+        q_j = rig.motive_flow(p)
+        s_tot = ejector_total_speed(rig, p, q_j)
+        pump_heat = feed_pump.hydraulic_power(q_j, rig.pump_rise(p)) + rig.motor_heat
+        # Air the motive liquid releases at suction takes part of the jet's air throughput.
+        released = rig.motive_degassing * q_j * air.dissolved_air_pv(temp, rig.barometric_pressure) * np.clip(1.0 - p / rig.barometric_pressure, 0.0, 1.0)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            excess = np.where(s_tot > 0, released / np.where(s_tot > 0, s_tot, 1.0), 0.0)
+    else:
+        q_j = np.zeros_like(p) if isinstance(p, np.ndarray) else 0.0
+        s_tot = q_j
+        pump_heat = q_j * 0.0
+        excess = q_j * 0.0
+    conductance = hose.conductance(rig.hose_diameter, rig.hose_length, p)
+    s_eff = hose.series_speed(s_tot, conductance)
+    floor = p_v + excess
+
+    room = tub.room_heat_flow(rig.ua, controls.ambient_temperature, temp)
+    if controls.ice_pieces > 0:
+        area = tub.ice_surface_area(m_ice, controls.ice_pieces, rig.ice_density)
+        q_melt = tub.melt_heat_flow(rig.ice_heat_transfer, area, temp, t_f)
+    else:
+        q_melt = temp * 0.0
+    # Ice colder than the solution's freezing point first warms to it, then melts there.
+    latent = ice.latent_heat_fusion(t_f) + ice.heat_capacity(np.minimum(rig.ice_temperature, t_f)) * np.maximum(t_f - rig.ice_temperature, 0.0)
+    mdot = q_melt / latent
+    cp_liquid = fluid.heat_capacity(rig.glycol, w, temp)
+    cp_water = fluid.heat_capacity("none", 0.0, temp)
+    meltwater = mdot * cp_water * (temp - t_f)
+    return Fluxes(
+        glycol_mass_fraction=w,
+        freezing_point_k=t_f,
+        vapor_pressure_pa=p_v,
+        floor_pressure_pa=floor,
+        motive_flow_m3_s=q_j,
+        ejector_speed_m3_s=s_tot,
+        hose_conductance_m3_s=conductance,
+        effective_speed_m3_s=s_eff,
+        gas_load_pa_m3_s=rig.leak_rate + 0.0 * p,
+        pump_heat_w=pump_heat,
+        room_heat_w=room,
+        melt_heat_w=q_melt,
+        meltwater_heat_w=meltwater,
+        melt_rate_kg_s=mdot,
+        heat_capacity_j_k=m_liquid * cp_liquid,
+    )
+
+
+def rhs(t: float, y: np.ndarray, rig: Rig, controls: Controls) -> np.ndarray:
+    """dy/dt of the whole rig."""
+    f = fluxes(rig, controls, y)
+    dy = np.empty(len(STATE))
+    if controls.vented:
+        dy[P] = 0.0
+    else:
+        dy[P] = (f.gas_load_pa_m3_s - f.effective_speed_m3_s * (y[P] - f.floor_pressure_pa)) / rig.volume
+    dy[T] = (f.pump_heat_w + f.room_heat_w - f.melt_heat_w - f.meltwater_heat_w) / f.heat_capacity_j_k
+    dy[ICE] = -f.melt_rate_kg_s
+    dy[WATER] = f.melt_rate_kg_s
+    dy[E_PUMP] = f.pump_heat_w
+    dy[E_ROOM] = f.room_heat_w
+    dy[E_MELT] = f.melt_heat_w
+    dy[E_MELTWATER] = f.meltwater_heat_w
+    return dy

@@ -1,0 +1,187 @@
+"""The result of one run: series, summary figures, and how they are written."""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+from dataclasses import asdict, dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from . import constants as c
+
+# Columns of timeseries.csv, in order, each with its SI unit in the name.
+CSV_COLUMNS = (
+    "time_s",
+    "pressure_pa",
+    "tub_temperature_k",
+    "ice_mass_kg",
+    "water_mass_kg",
+    "vapor_pressure_pa",
+    "floor_pressure_pa",
+    "ejector_speed_m3_s",
+    "effective_speed_m3_s",
+    "motive_flow_m3_s",
+    "pump_heat_w",
+    "room_heat_w",
+    "melt_heat_w",
+    "glycol_mass_fraction",
+    "freezing_point_k",
+    "pump_on",
+)
+
+
+@dataclass(frozen=True)
+class Warning_:
+    """A warning of the run: a short code, a sentence for the user, and when it happened [s]."""
+
+    code: str
+    message: str
+    time_s: float | None = None
+
+
+def _first_window(windows):
+    return windows[0] if windows else None
+
+
+def usable_windows(duration, target, crossings, pump_stops, vents, p0, pump_on_at_start=True):
+    """Windows [start, end] [s] in which the apparatus is at or below the target pressure.
+
+    A window opens when the pressure falls to the target and closes at the first later time
+    it rises above it, the pump stops, the apparatus is vented, or the run ends.
+    """
+    if target is None:
+        return []
+    marks = sorted(
+        [(t, "down" if d < 0 else "up") for t, d in crossings] + [(t, "stop") for t in pump_stops] + [(t, "vent") for t in vents],
+        key=lambda m: m[0],
+    )
+    windows = []
+    start = 0.0 if (p0 <= target and pump_on_at_start) else None
+    for t, kind in marks:
+        if kind == "down" and start is None:
+            start = t
+        elif kind in ("up", "stop", "vent") and start is not None:
+            if t > start:
+                windows.append((start, t))
+            start = None
+    if start is not None and duration > start:
+        windows.append((start, duration))
+    return windows
+
+
+def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, vents, ice_gone_s, ultimate_start, start_fluxes, warnings):
+    """The summary figures of a run (summary.json); SI units, None where not applicable."""
+    p = series["pressure_pa"]
+    temp = series["tub_temperature_k"]
+    duration = float(time[-1])
+    windows = usable_windows(duration, target, crossings, pump_stops, vents, float(p[0]))
+    first = _first_window(windows)
+    warnings = list(warnings)
+    if target is not None and first is None:
+        pumping = series["pump_on"] > 0
+        p_min = float(np.min(p[pumping])) if pumping.any() else float(np.min(p))
+        floor_min = float(np.min(series["floor_pressure_pa"]))
+        warnings.append(
+            Warning_(
+                "target_not_reached",
+                f"never reached the {target / 100:.1f} mbar target: the lowest pressure was {p_min / 100:.1f} mbar "
+                f"(fluid vapor-pressure floor {floor_min / 100:.1f} mbar); pump-down stalled above the target.",
+                None,
+            )
+        )
+    if ultimate_start is not None and target is not None and ultimate_start > target and first is not None:
+        pass
+    return {
+        "scenario": scenario.name,
+        "description": scenario.description,
+        "duration_s": duration,
+        "target_pressure_pa": target,
+        "time_to_target_s": first[0] if first else None,
+        "usable_start_s": first[0] if first else None,
+        "usable_end_s": first[1] if first else None,
+        "usable_duration_s": (first[1] - first[0]) if first else 0.0,
+        "usable_windows": [{"start_s": a, "end_s": b, "duration_s": b - a} for a, b in windows],
+        "min_pressure_pa": float(np.min(p)),
+        "final_pressure_pa": float(p[-1]),
+        "ultimate_pressure_start_pa": ultimate_start,
+        "motive_flow_m3_s": float(start_fluxes.motive_flow_m3_s),
+        "ejector_speed_m3_s": float(start_fluxes.ejector_speed_m3_s),
+        "pump_heat_w": float(start_fluxes.pump_heat_w),
+        "shutoff_pressure_pa": max(float(rig.shutoff_pressure), 0.0) if np.isfinite(rig.shutoff_pressure) else None,
+        "ua_w_k": rig.ua,
+        "ice_initial_kg": float(series["ice_mass_kg"][0]),
+        "ice_gone_s": ice_gone_s,
+        "min_tub_temperature_k": float(np.min(temp)),
+        "max_tub_temperature_k": float(np.max(temp)),
+        "final_tub_temperature_k": float(temp[-1]),
+        "barometric_pressure_pa": rig.barometric_pressure,
+        "warnings": [asdict(w) for w in warnings],
+        "assumptions": [asdict(a) for a in rig.assumptions],
+    }
+
+
+@dataclass(frozen=True)
+class RunResult:
+    """One simulated run.
+
+    Attributes
+    ----------
+    scenario : Scenario
+        What was simulated.
+    time_s : ndarray
+        Sample times [s]; a schedule entry that changes the state appears twice (before, after).
+    series : dict of str -> ndarray
+        State and derived series, each name carrying its SI unit (see CSV_COLUMNS).
+    summary : dict
+        The summary figures (summary.json), SI units.
+    solver : dict
+        Solver method and statistics.
+    """
+
+    scenario: object
+    time_s: np.ndarray
+    series: dict
+    summary: dict
+    solver: dict = field(default_factory=dict)
+
+    def csv_text(self) -> str:
+        """timeseries.csv as text."""
+        buf = io.StringIO()
+        writer = csv.writer(buf, lineterminator="\n")
+        columns = [col for col in CSV_COLUMNS if col == "time_s" or col in self.series]
+        columns += [k for k in self.series if k.endswith(("_k", "_pa", "_kg")) and k not in columns and k.startswith("target_")]
+        writer.writerow(columns)
+        data = [self.time_s] + [self.series[col] for col in columns[1:]]
+        for row in zip(*data):
+            writer.writerow([f"{v:.10g}" for v in row])
+        return buf.getvalue()
+
+    def summary_json(self) -> str:
+        """summary.json as text."""
+        from .report.files import json_safe
+
+        return json.dumps(json_safe(self.summary), indent=2) + "\n"
+
+    def to_csv(self, path) -> Path:
+        """Write timeseries.csv atomically; returns the path."""
+        from .report.files import write_text_atomic
+
+        return write_text_atomic(Path(path), self.csv_text())
+
+    def plot(self, out_dir=None):
+        """Pressure and tub figures; written to `out_dir` if given, else returned."""
+        from .report import plots
+
+        return plots.run_figures(self, out_dir)
+
+    def at(self, name: str, time_s: float) -> float:
+        """A series interpolated at a time [s]."""
+        return float(np.interp(time_s, self.time_s, self.series[name]))
+
+
+def celsius(kelvin: float | None) -> float | None:
+    """K -> degC for display (None passes through)."""
+    return None if kelvin is None else kelvin - c.ZERO_CELSIUS

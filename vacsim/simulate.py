@@ -1,0 +1,227 @@
+"""Solve the rig model over a run: schedule segments, events, usable windows, warnings."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+
+import numpy as np
+from scipy.integrate import solve_ivp
+from scipy.optimize import brentq
+
+from . import constants as c
+from .components import ejector
+from .errors import SolverError
+from .model import ICE, ICE_GONE_KG, P, STATE, Controls, Rig, apply_entry, build_rig, fluxes, initial_controls, initial_state, rhs
+from .results import RunResult, Warning_, summarise
+from .scenario import Scenario
+
+# Stiff methods only: the gas side relaxes in seconds, the tub over hours.
+METHODS = ("LSODA", "BDF", "Radau")
+# Absolute tolerances per state slot, in its SI unit.
+_ATOL = np.array([1e-4, 1e-7, 1e-8, 1e-8, 1e-2, 1e-2, 1e-2, 1e-2])
+
+
+@dataclass
+class _Segment:
+    t: np.ndarray
+    y: np.ndarray
+    controls: Controls
+
+
+def target_pressure(s: Scenario) -> float | None:
+    """The target pressure [Pa]: given, or the compound's vapor pressure at its boiling temperature."""
+    if s.target is None:
+        return None
+    if s.target.pressure is not None:
+        return s.target.pressure
+    from .properties import solvents
+
+    return float(solvents.vapor_pressure(s.target.compound, s.target.boiling_temperature))
+
+
+def _events(rig: Rig, controls: Controls, target: float | None):
+    def ice_gone(t, y, rig_, ctl_):
+        return y[ICE] - ICE_GONE_KG
+
+    ice_gone.terminal = True
+    ice_gone.direction = -1
+    events = [ice_gone]
+    if target is not None:
+
+        def crossing(t, y, rig_, ctl_):
+            return y[P] - target
+
+        crossing.terminal = False
+        crossing.direction = 0
+        events.append(crossing)
+    return events
+
+
+def ultimate_pressure(rig: Rig, controls: Controls, y: np.ndarray) -> float | None:
+    """Steady apparatus pressure with the tub frozen at state `y` [Pa] (None with the pump off)."""
+    if not controls.pump_on:
+        return None
+    state = np.array(y, dtype=float)
+
+    def imbalance(p):
+        state[P] = p
+        f = fluxes(rig, controls, state)
+        return float(f.gas_load_pa_m3_s - f.effective_speed_m3_s * (p - f.floor_pressure_pa))
+
+    state[P] = rig.barometric_pressure
+    low = float(fluxes(rig, controls, state).vapor_pressure_pa) * (1.0 + 1e-9) + 1e-9
+    high = rig.barometric_pressure
+    if imbalance(high) >= 0:
+        return high
+    if imbalance(low) <= 0:
+        return low
+    return float(brentq(imbalance, low, high, xtol=1e-9, rtol=1e-12))
+
+
+def simulate(scenario: Scenario, *, method: str = "LSODA", rtol: float | None = None, max_step: float | None = None) -> RunResult:
+    """Simulate a scenario's run.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        A validated scenario (see vacsim.scenario.load_scenario).
+    method : str
+        One of METHODS (stiff scipy integrators).
+    rtol : float, optional
+        Relative tolerance (default: the scenario's run.relative_tolerance).
+    max_step : float, optional
+        Largest solver step [s] (default: the output interval times 30).
+
+    Returns
+    -------
+    RunResult
+    """
+    if method not in METHODS and method != "RK45":
+        raise ValueError(f"unknown method {method!r}; valid: {', '.join(METHODS)}")
+    s = scenario
+    rig = build_rig(s)
+    y = initial_state(s, rig)
+    ctl = initial_controls(s, rig)
+    target = target_pressure(s)
+    duration = s.run.duration
+    rtol = s.run.relative_tolerance if rtol is None else rtol
+    atol = _ATOL * np.array([1.0, 1.0, max(s.tub.ice, 1e-3), max(y[3], 1e-3), 1, 1, 1, 1])
+    max_step = max_step if max_step is not None else 30.0 * s.run.output_interval
+    grid = np.unique(np.append(np.arange(0.0, duration, s.run.output_interval), duration))
+
+    warnings: list[Warning_] = []
+    crossings: list[tuple[float, int]] = []
+    pump_stops: list[float] = []
+    vents: list[float] = []
+    ice_gone_s: float | None = None
+    stats = {"nfev": 0, "njev": 0, "nlu": 0, "segments": 0}
+    entries = sorted(s.schedule, key=lambda e: e.at)
+    boundaries = sorted({e.at for e in entries if 0.0 < e.at < duration} | {duration})
+    segments: list[_Segment] = []
+
+    # entries at t = 0 apply before the run starts
+    for e in (e for e in entries if e.at == 0.0):
+        ctl, y = _apply(e, ctl, y, rig, warnings, pump_stops, vents)
+    segments.append(_Segment(np.array([0.0]), y[:, None].copy(), ctl))
+    t = 0.0
+    for t_end in boundaries:
+        while t < t_end:
+            events = _events(rig, ctl, target)
+            if ctl.ice_pieces <= 0 or y[ICE] <= ICE_GONE_KG:
+                events[0] = _never
+            t_eval = grid[(grid > t) & (grid < t_end)]
+            t_eval = np.append(t_eval, t_end)
+            sol = solve_ivp(
+                rhs, (t, t_end), y, method=method, t_eval=t_eval, events=events, args=(rig, ctl),
+                rtol=rtol, atol=atol, max_step=max_step,
+            )
+            stats["nfev"] += sol.nfev
+            stats["njev"] += sol.njev
+            stats["nlu"] += sol.nlu
+            stats["segments"] += 1
+            if sol.status == -1:
+                raise SolverError(f"{s.name}: integration failed at t = {t:.1f} s: {sol.message}")
+            if len(events) > 1:
+                for te, ye in zip(sol.t_events[1], sol.y_events[1]):
+                    slope = rhs(te, ye, rig, ctl)[P]
+                    crossings.append((float(te), -1 if slope < 0 else 1))
+            if sol.status == 1 and len(sol.t_events[0]):
+                te = float(sol.t_events[0][0])
+                ye = sol.y_events[0][0].copy()
+                segments.append(_Segment(np.append(sol.t, te), np.column_stack([sol.y, ye]), ctl))
+                ye[ICE] = 0.0
+                ctl = replace(ctl, ice_pieces=0.0)
+                ice_gone_s = te
+                t, y = te, ye
+                continue
+            segments.append(_Segment(sol.t, sol.y, ctl))
+            t, y = t_end, sol.y[:, -1].copy()
+        for e in (e for e in entries if e.at == t_end):
+            ctl, y = _apply(e, ctl, y, rig, warnings, pump_stops, vents)
+            if e.add_ice:
+                ice_gone_s = None
+            segments.append(_Segment(np.array([t_end]), y[:, None].copy(), ctl))
+
+    time = np.concatenate([seg.t for seg in segments])
+    states = np.concatenate([seg.y for seg in segments], axis=1)
+    derived = [fluxes(rig, seg.controls, seg.y) for seg in segments]
+    series = {name: states[i] for i, name in enumerate(STATE)}
+    for key in derived[0].__dataclass_fields__:
+        series[key] = np.concatenate([np.broadcast_to(np.asarray(getattr(d, key), dtype=float), seg.t.shape) for d, seg in zip(derived, segments)])
+    series["pump_on"] = np.concatenate([np.full(seg.t.shape, 1.0 if seg.controls.pump_on else 0.0) for seg in segments])
+
+    y0 = initial_state(s, rig)
+    ctl0 = initial_controls(s, rig)
+    ultimate0 = ultimate_pressure(rig, ctl0, y0)
+    _feed_warnings(s, rig, target, ultimate0, warnings)
+    summary = summarise(
+        scenario=s, rig=rig, time=time, series=series, target=target, crossings=crossings, pump_stops=pump_stops,
+        vents=vents, ice_gone_s=ice_gone_s, ultimate_start=ultimate0, start_fluxes=fluxes(rig, ctl0, y0), warnings=warnings,
+    )
+    return RunResult(scenario=s, time_s=time, series=series, summary=summary, solver={"method": method, **stats})
+
+
+def _never(t, y, *args):
+    return 1.0
+
+
+_never.terminal = False
+_never.direction = 0
+
+
+def _apply(entry, ctl, y, rig, warnings, pump_stops, vents):
+    if entry.pump == "off" and ctl.pump_on and not ctl.vented and not entry.vent and y[P] < 0.8 * rig.barometric_pressure:
+        warnings.append(
+            Warning_(
+                "suck_back",
+                f"pump stopped at {entry.at / 60:.0f} min with the apparatus under vacuum: tub water can be drawn back into it. "
+                "Vent first, then stop the pump.",
+                entry.at,
+            )
+        )
+    if entry.pump == "off" and ctl.pump_on:
+        pump_stops.append(entry.at)
+    if entry.vent:
+        vents.append(entry.at)
+    return apply_entry(entry, ctl, y, rig)
+
+
+def _feed_warnings(s: Scenario, rig: Rig, target: float | None, ultimate0: float | None, warnings: list) -> None:
+    """Warn when the feed pump is below the ejector's working head for the target."""
+    if s.ejector.measured is not None:
+        return
+    p_baro = rig.barometric_pressure
+    rise = float(rig.pump_rise(max(rig.shutoff_pressure, 0.0)))
+    reference = target if target is not None else 0.05 * p_baro
+    inlet_needed = float(ejector.working_inlet_pressure(reference, p_baro, s.ejector.area_ratio, s.ejector.nozzle_loss, s.ejector.throat_loss, s.ejector.diffuser_loss, s.ejector.diffuser_area_ratio))
+    needed = inlet_needed - p_baro
+    if rig.shutoff_pressure > reference:
+        what = f"the {reference / 100:.1f} mbar target" if target is not None else "a useful vacuum"
+        warnings.append(
+            Warning_(
+                "below_working_head",
+                f"feed pump gives {rise / 1e5:.2f} bar at the nozzle; the ejector needs about {needed / 1e5:.2f} bar "
+                f"({needed / c.PSI:.0f} psi) to reach {what}. The jet shuts off at {rig.shutoff_pressure / 100:.0f} mbar.",
+                0.0,
+            )
+        )
