@@ -298,7 +298,7 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
         s_tot = ejector_total_speed(rig, p, q_j)
         pump_heat = feed_pump.hydraulic_power(q_j, rig.pump_rise(p)) + rig.motor_heat
         # Air the motive liquid releases at suction takes part of the jet's air throughput.
-        released = rig.motive_degassing * q_j * air.dissolved_air_pv(temp, rig.barometric_pressure) * np.clip(1.0 - p / rig.barometric_pressure, 0.0, 1.0)
+        released = rig.motive_degassing * q_j * air.dissolved_air_pv(np.maximum(temp, c.ZERO_CELSIUS), rig.barometric_pressure) * np.clip(1.0 - p / rig.barometric_pressure, 0.0, 1.0)
         with np.errstate(divide="ignore", invalid="ignore"):
             excess = np.where(s_tot > 0, released / np.where(s_tot > 0, s_tot, 1.0), 0.0)
     else:

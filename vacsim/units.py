@@ -71,6 +71,8 @@ def registry() -> pint.UnitRegistry:
 
 _GAUGE = re.compile(r"^\s*(?P<num>[-+0-9.eE]+)\s*(?P<unit>psi|bar|kPa|MPa|mbar)g\s*$")
 _VACUUM = re.compile(r"^\s*(?P<num>[-+0-9.eE]+)\s*(?P<unit>inHg|mmHg|Torr|mbar|kPa)\s+vacuum\s*$")
+_TIME_TERM = re.compile(r"([0-9.]+)\s*(h|hr|hour|hours|min|minute|minutes|s|sec|second|seconds)\b")
+_COMPOUND_TIME = re.compile(r"\s*(?:[0-9.]+\s*(?:h|hr|hour|hours|min|minute|minutes|s|sec|second|seconds)\b\s*)+")
 # Unit spellings pint would get wrong or not know.
 _SPELLINGS = [
     (re.compile(r"\bmmHg\b"), "mmHg_c"),
@@ -148,6 +150,9 @@ def parse_quantity(
                 raise InputError(f"{where}: the gauge reading {text!r} needs the barometric pressure")
             reading = parse_quantity(f"{gauge['num']} {gauge['unit']}", "pressure", where=where)
             return barometric_pressure - reading if "vacuum" in text else barometric_pressure + reading
+    compound = _COMPOUND_TIME.fullmatch(text) if kind == "time" else None
+    if compound and len(_TIME_TERM.findall(text)) > 1:  # "2 h 50 min"
+        return sum(parse_quantity(f"{n} {u}", "time", where=where) for n, u in _TIME_TERM.findall(text))
     try:
         q = _parse_plain(text)
     except (pint.errors.PintError, ValueError, TypeError, AttributeError, SyntaxError, KeyError) as exc:

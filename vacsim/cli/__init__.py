@@ -11,6 +11,11 @@ from . import boil_cmd  # noqa: F401,E402  boil
 from . import fluid_cmd  # noqa: F401,E402  fluid
 from . import run_cmd  # noqa: F401,E402  run
 from . import leak_cmd  # noqa: F401,E402  leak
+from . import ice_cmd  # noqa: F401,E402  ice
+from . import sweep_cmd  # noqa: F401,E402  sweep
+from . import compare_cmd  # noqa: F401,E402  compare
+from . import fit_cmd  # noqa: F401,E402  fit
+from . import spread_cmd  # noqa: F401,E402  spread, sensitivity
 
 
 def main() -> None:

@@ -1,0 +1,2 @@
+"""(placeholder: commands to come)."""
+from .app import app  # noqa: F401
