@@ -29,7 +29,8 @@ import numpy as np
 
 from . import constants as c
 from .components import ejector, feed_pump, hose, tub
-from .properties import air, fluid, ice
+from .properties import fluid, ice
+from .properties.tabulated import FluidTable, build_table
 from .scenario import Scenario
 
 STATE = (
@@ -98,6 +99,7 @@ class Rig:
     suction_grid: np.ndarray
     motive_flow_grid: np.ndarray
     pump_rise_grid: np.ndarray
+    table: FluidTable
     assumptions: tuple[Assumption, ...] = field(default=())
 
     def motive_flow(self, suction_pressure):
@@ -214,6 +216,7 @@ def build_rig(s: Scenario) -> Rig:
         suction_grid=suction_grid,
         motive_flow_grid=flows,
         pump_rise_grid=rises,
+        table=build_table(tb.glycol, tb.glycol_mass_fraction, t_max=max(t0, s.run.ambient_temperature, *(e.ambient_temperature or 0 for e in s.schedule)) + 60.0),
         assumptions=tuple(assumptions),
     )
 
@@ -290,15 +293,16 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
     p, temp, m_ice, m_water = y[P], y[T], np.maximum(y[ICE], 0.0), y[WATER]
     m_liquid = m_water + rig.glycol_mass
     w = rig.glycol_mass / m_liquid
-    t_f = fluid.freezing_point(rig.glycol, w)
-    p_v = fluid.vapor_pressure(rig.glycol, w, temp)
+    tab = rig.table
+    t_f = tab.freezing_point(w)
+    p_v = tab.vapor_pressure(w, temp)
 
     if controls.pump_on:
         q_j = rig.motive_flow(p)
         s_tot = ejector_total_speed(rig, p, q_j)
         pump_heat = feed_pump.hydraulic_power(q_j, rig.pump_rise(p)) + rig.motor_heat
         # Air the motive liquid releases at suction takes part of the jet's air throughput.
-        released = rig.motive_degassing * q_j * air.dissolved_air_pv(np.maximum(temp, c.ZERO_CELSIUS), rig.barometric_pressure) * np.clip(1.0 - p / rig.barometric_pressure, 0.0, 1.0)
+        released = rig.motive_degassing * q_j * tab.dissolved_air_pv(temp) * np.clip(1.0 - p / rig.barometric_pressure, 0.0, 1.0)
         with np.errstate(divide="ignore", invalid="ignore"):
             excess = np.where(s_tot > 0, released / np.where(s_tot > 0, s_tot, 1.0), 0.0)
     else:
@@ -317,11 +321,10 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
     else:
         q_melt = temp * 0.0
     # Ice colder than the solution's freezing point first warms to it, then melts there.
-    latent = ice.latent_heat_fusion(t_f) + ice.heat_capacity(np.minimum(rig.ice_temperature, t_f)) * np.maximum(t_f - rig.ice_temperature, 0.0)
+    latent = tab.latent_heat(w) + tab.ice_heat_capacity(w) * np.maximum(t_f - rig.ice_temperature, 0.0)
     mdot = q_melt / latent
-    cp_liquid = fluid.heat_capacity(rig.glycol, w, temp)
-    cp_water = fluid.heat_capacity("none", 0.0, temp)
-    meltwater = mdot * cp_water * (temp - t_f)
+    meltwater = mdot * tab.water_heat_capacity(temp) * (temp - t_f)
+    cp_liquid = tab.heat_capacity(w, temp)
     return Fluxes(
         glycol_mass_fraction=w,
         freezing_point_k=t_f,

@@ -78,7 +78,9 @@ def ultimate_pressure(rig: Rig, controls: Controls, y: np.ndarray) -> float | No
     return float(brentq(imbalance, low, high, xtol=1e-9, rtol=1e-12))
 
 
-def simulate(scenario: Scenario, *, method: str = "LSODA", rtol: float | None = None, max_step: float | None = None) -> RunResult:
+def simulate(
+    scenario: Scenario, *, method: str = "LSODA", rtol: float | None = None, max_step: float | None = None, rig: Rig | None = None
+) -> RunResult:
     """Simulate a scenario's run.
 
     Parameters
@@ -91,6 +93,8 @@ def simulate(scenario: Scenario, *, method: str = "LSODA", rtol: float | None = 
         Relative tolerance (default: the scenario's run.relative_tolerance).
     max_step : float, optional
         Largest solver step [s] (default: the output interval times 30).
+    rig : Rig, optional
+        A prepared rig (default: built from the scenario); tests use it to pin components.
 
     Returns
     -------
@@ -99,7 +103,7 @@ def simulate(scenario: Scenario, *, method: str = "LSODA", rtol: float | None = 
     if method not in METHODS and method != "RK45":
         raise ValueError(f"unknown method {method!r}; valid: {', '.join(METHODS)}")
     s = scenario
-    rig = build_rig(s)
+    rig = build_rig(s) if rig is None else rig
     y = initial_state(s, rig)
     ctl = initial_controls(s, rig)
     target = target_pressure(s)
