@@ -11,7 +11,7 @@ def __getattr__(name):  # lazy: keep `import vacsim` and `vacsim --help` fast
 
         return load_scenario
     if name == "simulate":
-        from .simulate import simulate
+        from .simulation import simulate
 
         return simulate
     raise AttributeError(name)

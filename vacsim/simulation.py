@@ -11,7 +11,7 @@ from scipy.optimize import brentq
 from . import constants as c
 from .components import ejector
 from .errors import SolverError
-from .model import ICE, ICE_GONE_KG, P, STATE, Controls, Rig, apply_entry, build_rig, fluxes, initial_controls, initial_state, rhs
+from .model import ICE, ICE_GONE_KG, P, STATE, WATER, Controls, Rig, apply_entry, build_rig, fluxes, initial_controls, initial_state, rhs
 from .results import RunResult, Warning_, summarise
 from .scenario import Scenario
 
@@ -153,6 +153,7 @@ def simulate(
                 te = float(sol.t_events[0][0])
                 ye = sol.y_events[0][0].copy()
                 segments.append(_Segment(np.append(sol.t, te), np.column_stack([sol.y, ye]), ctl))
+                ye[WATER] += ye[ICE]  # the last crumb (ICE_GONE_KG) joins the liquid; its heat is negligible
                 ye[ICE] = 0.0
                 ctl = replace(ctl, ice_pieces=0.0)
                 ice_gone_s = te

@@ -59,7 +59,7 @@ def run(
     """Simulate a run: pump-down, tub warm-up, usable window; writes timeseries.csv, summary.json and plots."""
     from ..report.files import output_directory
     from ..scenario import load_scenario
-    from ..simulate import simulate
+    from ..simulation import simulate
 
     unit = check_pressure_unit(units)
     s = load_scenario(scenario, set_ or [])
