@@ -161,6 +161,10 @@ def parse_quantity(
         raise InputError(f"{where}: expected a {kind} with a unit, such as {example}; got {text!r}")
     ureg = registry()
     if kind == "temperature difference":
+        # "5 degC" as a difference is 5 K; pint would read it as the temperature 278.15 K
+        offset_scale = {"degree_Celsius": 1.0, "degree_Fahrenheit": 5.0 / 9.0}
+        if str(q.units) in offset_scale:
+            return float(q.magnitude) * offset_scale[str(q.units)]
         try:
             return float(q.to("delta_degC").magnitude) if q.units != ureg.kelvin else float(q.magnitude)
         except pint.errors.DimensionalityError:
@@ -171,6 +175,8 @@ def parse_quantity(
         raise InputError(f"{where}: expected a {kind} such as {example}; got {text!r} ({q.dimensionality})") from None
     if not math.isfinite(out):
         raise InputError(f"{where}: {text!r} is not a finite {kind}")
+    if kind == "temperature" and out < 0.0:
+        raise InputError(f"{where}: {text!r} is below absolute zero")
     return out
 
 
