@@ -10,10 +10,13 @@ State vector (SI), one named slot each (see STATE):
     room_heat_j          cumulative heat from the room               [J]
     melt_heat_j          cumulative heat taken up by melting ice     [J]
     meltwater_heat_j     cumulative heat warming meltwater to T      [J]
+    solvent_tub_kg       distillate absorbed by the tub liquid       [kg]
+    pot_air_mol          air still dissolved in the pot charge       [mol]
+    vapor_heat_j         cumulative condensation heat of absorbed vapor [J]
 
-Gas side (DESIGN sec. 2): V dp/dt = Q_leak - S_eff (p - p_floor), S_eff the ejector's total
-speed in series with the hose, p_floor the tub fluid's vapor pressure plus the share of the
-suction the motive liquid's own released air takes. Heat side (DESIGN sec. 4):
+Gas side (DESIGN sec. 2): V dp/dt = Q_leak + Q_degas + Q_slip - S_eff (p - p_floor), S_eff the
+ejector's total speed in series with the hose, p_floor the tub fluid's vapor pressure (water and
+absorbed distillate) plus the share of the suction the motive liquid's own released air takes. Heat side (DESIGN sec. 4):
 (m_liq c_p) dT/dt = P_pump + UA (T_amb - T) - q_melt - mdot_melt c_w (T - T_f).
 
 Everything the RHS needs is computed once in `build_rig` from a Scenario; `Controls` carries
@@ -28,9 +31,9 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from . import constants as c
-from .components import ejector, feed_pump, hose, tub
+from .components import condenser, ejector, feed_pump, hose, pot, tub, tub_solvent
 from .properties import fluid, ice
-from .properties.tabulated import FluidTable, build_table
+from .properties.tabulated import FluidTable, _Row, _row, build_table, hermite
 from .scenario import Scenario
 
 STATE = (
@@ -42,9 +45,12 @@ STATE = (
     "room_heat_j",
     "melt_heat_j",
     "meltwater_heat_j",
+    "solvent_tub_kg",
+    "pot_air_mol",
+    "vapor_heat_j",
 )
 IDX = {name: i for i, name in enumerate(STATE)}
-P, T, ICE, WATER, E_PUMP, E_ROOM, E_MELT, E_MELTWATER = range(len(STATE))
+P, T, ICE, WATER, E_PUMP, E_ROOM, E_MELT, E_MELTWATER, SOLVENT, POT_AIR, E_VAPOR = range(len(STATE))
 
 # Ice below this mass counts as gone (the melt law's m^(2/3) is singular at zero).
 ICE_GONE_KG = 1e-6
@@ -58,6 +64,8 @@ class Controls:
     pump_on: bool = True
     vented: bool = False
     ice_pieces: float = 0.0  # number of pieces the ice mass is spread over
+    coolant_temperature: float | None = None  # K, condenser coolant
+    exit_vapor_pressure: float = math.inf  # Pa, distillate vapor pressure where gas leaves condenser/trap
 
 
 @dataclass(frozen=True)
@@ -68,6 +76,33 @@ class Assumption:
     value: float | str
     unit: str
     source: str
+
+
+@dataclass(frozen=True)
+class Distillation:
+    """The pot, condenser, trap and the distillate's behaviour in the tub, in SI."""
+
+    compound: str
+    molar_mass: float  # kg/mol
+    boil_up_mass_rate: float  # kg/s while boiling
+    pot_vapor_pressure: float | None  # Pa at the pot temperature; None: boils throughout
+    has_condenser: bool
+    trap_vapor_pressure: float  # Pa (inf without a trap)
+    latent_heat: float  # J/kg, released in the tub when slip vapor is absorbed
+    gas_temperature: float  # K, at which gas throughputs are counted
+    solvent_vapor_row: _Row  # pure distillate vapor pressure over the tub temperature grid [Pa]
+    henry_row: _Row | None  # Hcp over the tub temperature grid [mol/(m^3 Pa)]
+    solubility_mass_fraction: float | None  # in water; None = miscible
+    pot_volume: float  # m^3
+    degassing_rate: float  # 1/s
+    pot_air_saturation: float  # mol/m^3 at the pot temperature, 1 atm air
+
+    def exit_vapor_pressure(self, coolant_temperature: float | None) -> float:
+        """Distillate vapor pressure of the gas leaving the condenser (and trap) [Pa]."""
+        from .properties import solvents
+
+        condenser = math.inf if coolant_temperature is None else float(solvents.vapor_pressure(self.compound, coolant_temperature))
+        return min(condenser, self.trap_vapor_pressure)
 
 
 @dataclass(frozen=True)
@@ -100,6 +135,7 @@ class Rig:
     motive_flow_grid: np.ndarray
     pump_rise_grid: np.ndarray
     table: FluidTable
+    distillation: Distillation | None = None
     assumptions: tuple[Assumption, ...] = field(default=())
 
     def motive_flow(self, suction_pressure):
@@ -192,6 +228,8 @@ def build_rig(s: Scenario) -> Rig:
         assumptions.append(Assumption("run.barometric_pressure", c.STANDARD_ATMOSPHERE, "Pa", "standard atmosphere (CGPM 1954)"))
     assumptions.append(Assumption("motive liquid density", rho0, "kg/m^3", "tub fluid at its initial temperature, held for the operating point"))
 
+    table = build_table(tb.glycol, tb.glycol_mass_fraction, t_max=max(t0, s.run.ambient_temperature, *(e.ambient_temperature or 0 for e in s.schedule)) + 60.0)
+    distillation = _build_distillation(s, table, assumptions)
     return Rig(
         volume=s.apparatus.volume,
         leak_rate=s.apparatus.leak_rate,
@@ -216,8 +254,70 @@ def build_rig(s: Scenario) -> Rig:
         suction_grid=suction_grid,
         motive_flow_grid=flows,
         pump_rise_grid=rises,
-        table=build_table(tb.glycol, tb.glycol_mass_fraction, t_max=max(t0, s.run.ambient_temperature, *(e.ambient_temperature or 0 for e in s.schedule)) + 60.0),
+        table=table,
+        distillation=distillation,
         assumptions=tuple(assumptions),
+    )
+
+
+DEFAULT_DEGASSING_RATE = 1.0 / 60.0  # 1/s, k_La of a stirred/boiling pot (estimate, from memory)
+
+
+def _build_distillation(s: Scenario, table: FluidTable, assumptions: list) -> Distillation | None:
+    if s.pot is None and s.condenser is None and s.trap is None:
+        return None
+    import warnings
+
+    from .properties import air, solvents
+    from .properties._validity import OutOfRangeWarning
+
+    name = s.distillate
+    if name is None:
+        return None
+    comp = solvents.get_compound(name)
+    pot = s.pot
+    t_gas = s.run.ambient_temperature
+    if pot is not None and pot.boil_up_rate is not None:
+        boil = pot.boil_up_rate
+    elif pot is not None and pot.heat_input is not None:
+        t_ref = s.target.boiling_temperature or s.target.pot_temperature if s.target and s.target.compound else t_gas
+        boil = pot.heat_input / float(solvents.latent_heat_vaporization(comp, t_ref))
+        assumptions.append(Assumption("pot.boil_up_rate", boil, "kg/s", "heat_input / latent heat at the target boiling temperature (Clausius-Clapeyron)"))
+    else:
+        boil = 0.0
+    pot_pv = float(solvents.vapor_pressure(comp, pot.temperature)) if pot is not None and pot.temperature is not None else None
+    trap_pv = float(solvents.vapor_pressure(comp, s.trap.temperature)) if s.trap is not None else math.inf
+    grid = table.temperatures
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", OutOfRangeWarning)
+        vap_row = _row(grid, solvents.vapor_pressure(comp, grid))
+        henry_row = _row(grid, solvents.henry_solubility(comp, grid)) if comp.henry_hcp is not None else None
+        latent = float(solvents.latent_heat_vaporization(comp, s.initial_tub_temperature))
+    if comp.henry_hcp is None:
+        assumptions.append(Assumption("tub solvent model", "Raoult", "-", f"no Henry constant on file for {comp.name}: ideal solution assumed"))
+    pot_volume = pot.liquid_volume if pot is not None and pot.liquid_volume is not None else 0.0
+    k_la = pot.degassing_rate if pot is not None and pot.degassing_rate is not None else DEFAULT_DEGASSING_RATE
+    if pot is not None and pot.degassing_rate is None and pot_volume > 0:
+        assumptions.append(Assumption("pot.degassing_rate", k_la, "1/s", "estimate (from memory: ~1/60 s)"))
+    t_pot = pot.temperature if pot is not None and pot.temperature is not None else t_gas
+    saturation = float(air.dissolved_air_concentration(max(t_pot, c.ZERO_CELSIUS), s.barometric_pressure)) if pot is not None and pot.air_saturated else 0.0
+    if pot_volume > 0 and saturation > 0:
+        assumptions.append(Assumption("pot air solubility", saturation, "mol/m^3", "water's air solubility (Sander 2023) used for the pot charge: estimate"))
+    return Distillation(
+        compound=comp.name,
+        molar_mass=comp.molar_mass,
+        boil_up_mass_rate=boil,
+        pot_vapor_pressure=pot_pv,
+        has_condenser=s.condenser is not None,
+        trap_vapor_pressure=trap_pv,
+        latent_heat=latent,
+        gas_temperature=t_gas,
+        solvent_vapor_row=vap_row,
+        henry_row=henry_row,
+        solubility_mass_fraction=comp.solubility_mass_fraction,
+        pot_volume=pot_volume,
+        degassing_rate=k_la,
+        pot_air_saturation=saturation,
     )
 
 
@@ -231,13 +331,17 @@ def initial_state(s: Scenario, rig: Rig) -> np.ndarray:
     y[T] = t0
     y[ICE] = tb.ice
     y[WATER] = tb.liquid_volume * rho0 * (1.0 - tb.glycol_mass_fraction)
+    if rig.distillation is not None:
+        y[POT_AIR] = rig.distillation.pot_volume * rig.distillation.pot_air_saturation
     return y
 
 
 def initial_controls(s: Scenario, rig: Rig) -> Controls:
     """Controls at t = 0 (pump on, apparatus closed)."""
     pieces = tub.ice_piece_count(s.tub.ice, rig.ice_piece_size, rig.ice_density) if s.tub.ice > 0 else 0.0
-    return Controls(ambient_temperature=s.run.ambient_temperature, pump_on=True, vented=False, ice_pieces=pieces)
+    coolant = s.condenser.coolant_temperature if s.condenser is not None else None
+    exit_pv = rig.distillation.exit_vapor_pressure(coolant) if rig.distillation is not None else math.inf
+    return Controls(ambient_temperature=s.run.ambient_temperature, pump_on=True, vented=False, ice_pieces=pieces, coolant_temperature=coolant, exit_vapor_pressure=exit_pv)
 
 
 def apply_entry(entry, controls: Controls, y: np.ndarray, rig: Rig) -> tuple[Controls, np.ndarray]:
@@ -251,6 +355,9 @@ def apply_entry(entry, controls: Controls, y: np.ndarray, rig: Rig) -> tuple[Con
         changes["ambient_temperature"] = entry.ambient_temperature
     if entry.pump is not None:
         changes["pump_on"] = entry.pump == "on"
+    if entry.coolant_temperature is not None and rig.distillation is not None:
+        changes["coolant_temperature"] = entry.coolant_temperature
+        changes["exit_vapor_pressure"] = rig.distillation.exit_vapor_pressure(entry.coolant_temperature)
     if entry.vent is not None:
         changes["vented"] = bool(entry.vent)
         if entry.vent:
@@ -279,6 +386,12 @@ class Fluxes:
     meltwater_heat_w: object
     melt_rate_kg_s: object
     heat_capacity_j_k: object
+    boil_up_pa_m3_s: object
+    slip_pa_m3_s: object
+    degassing_pa_m3_s: object
+    solvent_partial_pressure_pa: object
+    vapor_heat_w: object
+    solvent_rate_kg_s: object
 
 
 def ejector_total_speed(rig: Rig, suction_pressure, motive_flow):
@@ -312,7 +425,24 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
         excess = q_j * 0.0
     conductance = hose.conductance(rig.hose_diameter, rig.hose_length, p)
     s_eff = hose.series_speed(s_tot, conductance)
-    floor = p_v + excess
+
+    zero = temp * 0.0
+    d = rig.distillation
+    if d is None:
+        boil = slip = degas = p_solvent = vapor_heat = solvent_rate = zero
+    else:
+        boiling = 1.0 if d.pot_vapor_pressure is None else pot.boiling_fraction(p, d.pot_vapor_pressure)
+        boil = pot.boil_up_throughput(d.boil_up_mass_rate * boiling, d.molar_mass, d.gas_temperature)
+        n_eq = d.pot_volume * d.pot_air_saturation * np.clip(p / rig.barometric_pressure, 0.0, 1.0)
+        degas = pot.degassing_throughput(d.degassing_rate, y[POT_AIR], n_eq, d.gas_temperature)
+        slip = condenser.slip_throughput(rig.leak_rate + np.maximum(degas, 0.0), p, controls.exit_vapor_pressure, boil)
+        solvent_rate = slip / (c.GAS_CONSTANT * d.gas_temperature) * d.molar_mass if controls.pump_on else zero
+        vapor_heat = solvent_rate * d.latent_heat
+        p_pure = hermite(temp, tab.temperatures, d.solvent_vapor_row.values, d.solvent_vapor_row.slopes)
+        henry = None if d.henry_row is None else hermite(temp, tab.temperatures, d.henry_row.values, d.henry_row.slopes)
+        liquid_volume = m_liquid / 1000.0  # m^3; the solvent's share of the floor needs no better
+        p_solvent = tub_solvent.solvent_partial_pressure(y[SOLVENT] / d.molar_mass, m_water, liquid_volume, henry, p_pure)
+    floor = p_v + p_solvent + excess
 
     room = tub.room_heat_flow(rig.ua, controls.ambient_temperature, temp)
     if controls.ice_pieces > 0:
@@ -334,13 +464,19 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
         ejector_speed_m3_s=s_tot,
         hose_conductance_m3_s=conductance,
         effective_speed_m3_s=s_eff,
-        gas_load_pa_m3_s=rig.leak_rate + 0.0 * p,
+        gas_load_pa_m3_s=rig.leak_rate + degas + slip,
         pump_heat_w=pump_heat,
         room_heat_w=room,
         melt_heat_w=q_melt,
         meltwater_heat_w=meltwater,
         melt_rate_kg_s=mdot,
         heat_capacity_j_k=m_liquid * cp_liquid,
+        boil_up_pa_m3_s=boil,
+        slip_pa_m3_s=slip,
+        degassing_pa_m3_s=degas,
+        solvent_partial_pressure_pa=p_solvent,
+        vapor_heat_w=vapor_heat,
+        solvent_rate_kg_s=solvent_rate,
     )
 
 
@@ -352,11 +488,14 @@ def rhs(t: float, y: np.ndarray, rig: Rig, controls: Controls) -> np.ndarray:
         dy[P] = 0.0
     else:
         dy[P] = (f.gas_load_pa_m3_s - f.effective_speed_m3_s * (y[P] - f.floor_pressure_pa)) / rig.volume
-    dy[T] = (f.pump_heat_w + f.room_heat_w - f.melt_heat_w - f.meltwater_heat_w) / f.heat_capacity_j_k
+    dy[T] = (f.pump_heat_w + f.room_heat_w + f.vapor_heat_w - f.melt_heat_w - f.meltwater_heat_w) / f.heat_capacity_j_k
     dy[ICE] = -f.melt_rate_kg_s
     dy[WATER] = f.melt_rate_kg_s
     dy[E_PUMP] = f.pump_heat_w
     dy[E_ROOM] = f.room_heat_w
     dy[E_MELT] = f.melt_heat_w
     dy[E_MELTWATER] = f.meltwater_heat_w
+    dy[SOLVENT] = f.solvent_rate_kg_s
+    dy[POT_AIR] = -f.degassing_pa_m3_s / (c.GAS_CONSTANT * rig.distillation.gas_temperature) if rig.distillation is not None else 0.0
+    dy[E_VAPOR] = f.vapor_heat_w
     return dy

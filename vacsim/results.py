@@ -10,7 +10,6 @@ from pathlib import Path
 
 import numpy as np
 
-from . import constants as c
 
 # Columns of timeseries.csv, in order, each with its SI unit in the name.
 CSV_COLUMNS = (
@@ -29,6 +28,11 @@ CSV_COLUMNS = (
     "melt_heat_w",
     "glycol_mass_fraction",
     "freezing_point_k",
+    "target_boiling_temperature_k",
+    "solvent_tub_kg",
+    "solvent_partial_pressure_pa",
+    "slip_pa_m3_s",
+    "degassing_pa_m3_s",
     "pump_on",
 )
 
@@ -92,8 +96,6 @@ def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, ven
                 None,
             )
         )
-    if ultimate_start is not None and target is not None and ultimate_start > target and first is not None:
-        pass
     return {
         "scenario": scenario.name,
         "description": scenario.description,
@@ -118,6 +120,9 @@ def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, ven
         "max_tub_temperature_k": float(np.max(temp)),
         "final_tub_temperature_k": float(temp[-1]),
         "barometric_pressure_pa": rig.barometric_pressure,
+        "distillate": rig.distillation.compound if rig.distillation is not None else None,
+        "solvent_in_tub_kg": float(series["solvent_tub_kg"][-1]),
+        "solvent_floor_pa": float(series["solvent_partial_pressure_pa"][-1]),
         "warnings": [asdict(w) for w in warnings],
         "assumptions": [asdict(a) for a in rig.assumptions],
     }
@@ -152,7 +157,6 @@ class RunResult:
         buf = io.StringIO()
         writer = csv.writer(buf, lineterminator="\n")
         columns = [col for col in CSV_COLUMNS if col == "time_s" or col in self.series]
-        columns += [k for k in self.series if k.endswith(("_k", "_pa", "_kg")) and k not in columns and k.startswith("target_")]
         writer.writerow(columns)
         data = [self.time_s] + [self.series[col] for col in columns[1:]]
         for row in zip(*data):
@@ -180,8 +184,3 @@ class RunResult:
     def at(self, name: str, time_s: float) -> float:
         """A series interpolated at a time [s]."""
         return float(np.interp(time_s, self.time_s, self.series[name]))
-
-
-def celsius(kelvin: float | None) -> float | None:
-    """K -> degC for display (None passes through)."""
-    return None if kelvin is None else kelvin - c.ZERO_CELSIUS

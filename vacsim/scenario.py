@@ -184,19 +184,56 @@ class Tub(_Section):
 
 
 class Target(_Section):
-    """The pressure the distillation needs: given directly, or from a compound's boiling point."""
+    """The pressure the distillation needs: given directly, from the compound's boiling (head)
+    temperature, or from a limit on the pot temperature (the pot boils at the compound's
+    boiling point at the apparatus pressure)."""
 
     pressure: Pressure | None = None
     compound: str | None = None
     boiling_temperature: Temperature | None = None
+    pot_temperature: Temperature | None = None
 
     @model_validator(mode="after")
     def _one_way(self):
-        if self.pressure is not None and (self.compound or self.boiling_temperature is not None):
-            raise ValueError("give either pressure or compound + boiling_temperature")
-        if self.pressure is None and (self.compound is None or self.boiling_temperature is None):
-            raise ValueError("needs pressure, or compound and boiling_temperature")
+        by_compound = self.boiling_temperature is not None or self.pot_temperature is not None
+        if self.pressure is not None and by_compound:
+            raise ValueError("give either pressure or compound + boiling_temperature (or pot_temperature)")
+        if self.boiling_temperature is not None and self.pot_temperature is not None:
+            raise ValueError("give boiling_temperature or pot_temperature, not both")
+        if self.pressure is None and (self.compound is None or not by_compound):
+            raise ValueError("needs pressure, or compound and boiling_temperature (or pot_temperature)")
         return self
+
+
+class Pot(_Section):
+    """The distillation pot: what boils, how fast, and the air dissolved in its charge."""
+
+    compound: str | None = None
+    liquid_volume: Volume | None = None
+    temperature: Temperature | None = None
+    heat_input: Power | None = None
+    boil_up_rate: Annotated[float, _quantity("mass flow"), Field(ge=0)] | None = None
+    degassing_rate: RateConstant | None = None
+    air_saturated: bool = True
+
+    @model_validator(mode="after")
+    def _boil(self):
+        if self.heat_input is not None and self.boil_up_rate is not None:
+            raise ValueError("give boil_up_rate or heat_input, not both")
+        return self
+
+
+class Condenser(_Section):
+    """The condenser over the pot: its coolant and what it is meant to condense."""
+
+    coolant_temperature: Temperature
+    distillate: str | None = None
+
+
+class Trap(_Section):
+    """A cold trap between condenser and pump."""
+
+    temperature: Temperature
 
 
 class ScheduleEntry(_Section):
@@ -207,11 +244,12 @@ class ScheduleEntry(_Section):
     ambient_temperature: Temperature | None = None
     pump: Literal["on", "off"] | None = None
     vent: bool | None = None
+    coolant_temperature: Temperature | None = None
 
     @model_validator(mode="after")
     def _does_something(self):
-        if all(getattr(self, k) is None for k in ("add_ice", "ambient_temperature", "pump", "vent")):
-            raise ValueError("a schedule entry needs add_ice, ambient_temperature, pump or vent")
+        if all(getattr(self, k) is None for k in ("add_ice", "ambient_temperature", "pump", "vent", "coolant_temperature")):
+            raise ValueError("a schedule entry needs add_ice, ambient_temperature, pump, vent or coolant_temperature")
         return self
 
 
@@ -227,6 +265,9 @@ class Scenario(_Section):
     ejector: Ejector
     tub: Tub
     target: Target | None = None
+    pot: Pot | None = None
+    condenser: Condenser | None = None
+    trap: Trap | None = None
     schedule: list[ScheduleEntry] = []
     _raw: dict = PrivateAttr(default_factory=dict)
     _source: str = PrivateAttr(default="scenario")
@@ -238,7 +279,24 @@ class Scenario(_Section):
         for i, entry in enumerate(self.schedule):
             if entry.at > self.run.duration:
                 raise ValueError(f"schedule[{i}].at is after the end of the run")
+            if entry.coolant_temperature is not None and self.condenser is None:
+                raise ValueError(f"schedule[{i}].coolant_temperature needs a [condenser] section")
+        if self.pot is not None and (self.pot.boil_up_rate or self.pot.heat_input) and self.distillate is None:
+            raise ValueError("pot: boil-up needs a compound (pot.compound, condenser.distillate or target.compound)")
         return self
+
+    @property
+    def distillate(self) -> str | None:
+        """The compound that boils up and should condense: condenser.distillate, else the
+        pot's compound, else the target compound."""
+        for name in (
+            self.condenser.distillate if self.condenser else None,
+            self.pot.compound if self.pot else None,
+            self.target.compound if self.target else None,
+        ):
+            if name:
+                return name
+        return None
 
     @property
     def barometric_pressure(self) -> float:
@@ -269,10 +327,15 @@ def _barometric(barometric_pressure: float | None, altitude: float | None) -> fl
 # ---- loading -------------------------------------------------------------------------------
 
 
+# Sections whose keys are alternatives (pressure | compound + temperature): a file that gives
+# the section replaces its base's section whole instead of merging into it.
+_REPLACED_WHOLE = {"target"}
+
+
 def _deep_merge(base: dict, over: dict) -> dict:
     out = copy.deepcopy(base)
     for key, value in over.items():
-        if isinstance(value, dict) and isinstance(out.get(key), dict):
+        if isinstance(value, dict) and isinstance(out.get(key), dict) and key not in _REPLACED_WHOLE:
             out[key] = _deep_merge(out[key], value)
         else:
             out[key] = copy.deepcopy(value)
@@ -357,7 +420,7 @@ def _format_error(source: str, err: dict) -> str:
 def _close_key_hint(loc: tuple) -> str:
     section_models = {
         "run": Run, "apparatus": Apparatus, "hose": Hose, "feed_pump": FeedPump, "ejector": Ejector,
-        "tub": Tub, "target": Target, "schedule": ScheduleEntry,
+        "tub": Tub, "target": Target, "schedule": ScheduleEntry, "pot": Pot, "condenser": Condenser, "trap": Trap,
     }
     names = [p for p in loc if isinstance(p, str)]
     model = section_models.get(names[0]) if len(names) > 1 else Scenario
@@ -406,10 +469,18 @@ def _check_physics(s: Scenario, source: str) -> None:
         )
     if s.initial_pressure > s.barometric_pressure * 1.2:
         raise InputError(f"{source}: apparatus.initial_pressure: above barometric; vacsim models evacuation only")
-    if s.target is not None and s.target.compound is not None:
-        from .properties import solvents
+    from .properties import solvents
 
-        solvents.get_compound(s.target.compound)
+    for where, name in (
+        ("target.compound", s.target.compound if s.target else None),
+        ("pot.compound", s.pot.compound if s.pot else None),
+        ("condenser.distillate", s.condenser.distillate if s.condenser else None),
+    ):
+        if name is not None:
+            try:
+                solvents.get_compound(name)
+            except InputError as exc:
+                raise InputError(f"{source}: {where}: {exc}") from None
 
 
 def load_scenario(path: str | Path, overrides: list[str] | tuple[str, ...] = ()) -> Scenario:

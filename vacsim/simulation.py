@@ -18,7 +18,7 @@ from .scenario import Scenario
 # Stiff methods only: the gas side relaxes in seconds, the tub over hours.
 METHODS = ("LSODA", "BDF", "Radau")
 # Absolute tolerances per state slot, in its SI unit.
-_ATOL = np.array([1e-4, 1e-7, 1e-8, 1e-8, 1e-2, 1e-2, 1e-2, 1e-2])
+_ATOL = np.array([1e-4, 1e-7, 1e-8, 1e-8, 1e-2, 1e-2, 1e-2, 1e-2, 1e-10, 1e-10, 1e-2])
 
 
 @dataclass
@@ -36,7 +36,8 @@ def target_pressure(s: Scenario) -> float | None:
         return s.target.pressure
     from .properties import solvents
 
-    return float(solvents.vapor_pressure(s.target.compound, s.target.boiling_temperature))
+    limit = s.target.boiling_temperature if s.target.boiling_temperature is not None else s.target.pot_temperature
+    return float(solvents.vapor_pressure(s.target.compound, limit))
 
 
 def _events(rig: Rig, controls: Controls, target: float | None):
@@ -109,7 +110,7 @@ def simulate(
     target = target_pressure(s)
     duration = s.run.duration
     rtol = s.run.relative_tolerance if rtol is None else rtol
-    atol = _ATOL * np.array([1.0, 1.0, max(s.tub.ice, 1e-3), max(y[3], 1e-3), 1, 1, 1, 1])
+    atol = _ATOL * np.array([1.0, 1.0, max(s.tub.ice, 1e-3), max(y[3], 1e-3), 1, 1, 1, 1, 1, 1, 1])
     max_step = max_step if max_step is not None else 30.0 * s.run.output_interval
     grid = np.unique(np.append(np.arange(0.0, duration, s.run.output_interval), duration))
 
@@ -174,6 +175,14 @@ def simulate(
     for key in derived[0].__dataclass_fields__:
         series[key] = np.concatenate([np.broadcast_to(np.asarray(getattr(d, key), dtype=float), seg.t.shape) for d, seg in zip(derived, segments)])
     series["pump_on"] = np.concatenate([np.full(seg.t.shape, 1.0 if seg.controls.pump_on else 0.0) for seg in segments])
+    series["exit_vapor_pressure_pa"] = np.concatenate([np.full(seg.t.shape, seg.controls.exit_vapor_pressure) for seg in segments])
+    if s.target is not None and s.target.compound is not None:
+        from .properties import solvents
+
+        with np.errstate(all="ignore"), _quiet_ranges():
+            series["target_boiling_temperature_k"] = np.asarray(solvents.boiling_temperature(s.target.compound, series["pressure_pa"]), dtype=float)
+    if rig.distillation is not None:
+        _distillation_warnings(s, rig, time, series, warnings)
 
     y0 = initial_state(s, rig)
     ctl0 = initial_controls(s, rig)
@@ -184,6 +193,101 @@ def simulate(
         vents=vents, ice_gone_s=ice_gone_s, ultimate_start=ultimate0, start_fluxes=fluxes(rig, ctl0, y0), warnings=warnings,
     )
     return RunResult(scenario=s, time_s=time, series=series, summary=summary, solver={"method": method, **stats})
+
+
+def _quiet_ranges():
+    import warnings as _w
+
+    from .properties._validity import OutOfRangeWarning
+
+    ctx = _w.catch_warnings()
+    ctx.__enter__()
+    _w.simplefilter("ignore", OutOfRangeWarning)
+
+    class _Exit:
+        def __enter__(self):
+            return self
+
+        def __exit__(self, *exc):
+            ctx.__exit__(*exc)
+
+    return _Exit()
+
+
+# Share of the lower flammability limit above which vapor in the tub's headspace is flagged:
+# NFPA 69 (Standard on Explosion Prevention Systems) keeps combustible concentrations at or
+# below 25 % of the LFL (from memory).
+LFL_FRACTION = 0.25
+
+
+def _first(mask, time):
+    idx = np.flatnonzero(mask)
+    return float(time[idx[0]]) if idx.size else None
+
+
+def _distillation_warnings(s: Scenario, rig: Rig, time, series, warnings: list) -> None:
+    """Condenser overload, solvent phase separation and flammable headspace, each once."""
+    from .properties import solvents
+
+    d = rig.distillation
+    comp = solvents.get_compound(d.compound)
+    p = series["pressure_pa"]
+    boiling = series["boil_up_pa_m3_s"] > 1e-3 * max(float(series["boil_up_pa_m3_s"].max()), 1e-30)
+    if d.boil_up_mass_rate > 0 and not d.has_condenser and s.trap is None:
+        warnings.append(Warning_("no_condenser", f"the pot boils {d.compound} up with no condenser or trap: all of it goes to the pump and the tub.", 0.0))
+    # Overloaded: the pressure is at the distillate's vapor pressure at the coolant, or half the
+    # boil-up already slips past (the pressure then sits just above it, held up by vapor).
+    stalled = boiling & ((p <= series["exit_vapor_pressure_pa"] * 1.001) | (series["slip_pa_m3_s"] >= 0.5 * series["boil_up_pa_m3_s"]))
+    t_fail = _first(stalled, time)
+    if t_fail is not None and (d.has_condenser or s.trap is not None):
+        p_fail = float(np.interp(t_fail, time, p))
+        coolant = s.condenser.coolant_temperature if s.condenser else s.trap.temperature
+        floor = float(np.min(series["floor_pressure_pa"]))
+        with _quiet_ranges():
+            t_floor = float(solvents.boiling_temperature(comp, floor)) - c.ZERO_CELSIUS
+            target = target_pressure(s)
+            t_target = float(solvents.boiling_temperature(comp, target)) - c.ZERO_CELSIUS if target else None
+        advice = (
+            f"At the {target / 100:.0f} mbar target it boils at {t_target:.0f} °C: keep the pressure there (bleed valve) "
+            f"with coolant below that (common practice: 20 K colder, {t_target - 20:.0f} °C). "
+            if t_target is not None
+            else ""
+        )
+        warnings.append(
+            Warning_(
+                "condenser_cannot_condense",
+                f"CONDENSER OVERLOADED at {t_fail / 60:.0f} min ({p_fail / 100:.1f} mbar): {d.compound} boils below the "
+                f"{coolant - c.ZERO_CELSIUS:.1f} °C coolant, so the vapor goes to the pump and into the tub, holding the pressure up. "
+                + advice
+                + f"Left to the pump's floor ({floor / 100:.0f} mbar) it boils at {t_floor:.0f} °C: only a colder trap keeps it out of the tub.",
+                t_fail,
+            )
+        )
+    solvent = series["solvent_tub_kg"]
+    if d.solubility_mass_fraction is not None:
+        t_sep = _first(solvent > d.solubility_mass_fraction * series["water_mass_kg"], time)
+        if t_sep is not None:
+            warnings.append(
+                Warning_(
+                    "solvent_phase_separated",
+                    f"{d.compound} in the tub exceeds its solubility in water ({100 * d.solubility_mass_fraction:.2g} wt%, {comp.solubility_source}) "
+                    f"at {t_sep / 60:.0f} min: a separate layer forms and adds its full vapor pressure to the floor. Change the tub water.",
+                    t_sep,
+                )
+            )
+    if comp.lower_flammability_limit is not None:
+        share = series["solvent_partial_pressure_pa"] / rig.barometric_pressure
+        t_lfl = _first(share >= LFL_FRACTION * comp.lower_flammability_limit, time)
+        if t_lfl is not None:
+            warnings.append(
+                Warning_(
+                    "flammable_headspace",
+                    f"{d.compound} vapor over the tub reaches {100 * LFL_FRACTION:.0f} % of its lower flammability limit "
+                    f"({100 * comp.lower_flammability_limit:.2g} vol%, {comp.flammability_source}) at {t_lfl / 60:.0f} min: "
+                    "no sparks or hot surfaces near the tub; run it in a hood; dispose of the water as solvent waste.",
+                    t_lfl,
+                )
+            )
 
 
 def _never(t, y, *args):

@@ -18,6 +18,7 @@ from typing import Callable
 
 import numpy as np
 
+from ..constants import GAS_CONSTANT
 from ..errors import InputError
 from ._validity import check_range
 from .solvent_data import COMPOUNDS, Compound, VaporPressureCorrelation
@@ -415,3 +416,30 @@ def solubility_mass_fraction(compound: str | Compound, temperature):
     check_range(f"solubility of {c.name} in water", t, *SOLUBILITY_VALID_RANGE, "K")
     w = 1.0 if c.solubility_mass_fraction is None else c.solubility_mass_fraction
     return _out(np.full_like(t, w))
+
+
+def latent_heat_vaporization(compound: str | Compound, temperature):
+    """Latent heat of vaporization from the vapor-pressure correlation (Clausius-Clapeyron).
+
+    h_vap = R T^2 (d ln p_sat / dT) / M for an ideal vapor and a negligible liquid volume
+    (Poling, Prausnitz & O'Connell 2001, eq. 7-9.1 with Delta Z = 1); good to a few percent
+    well below the critical point. The derivative is a central difference of the compound's
+    own correlation.
+
+    Parameters
+    ----------
+    compound : str or Compound
+        The compound or any of its names.
+    temperature : float or ndarray
+        [K].
+
+    Returns
+    -------
+    float or ndarray
+        [J/kg].
+    """
+    c = get_compound(compound)
+    t = np.asarray(temperature, dtype=float)
+    dt = 0.01
+    dlnp = np.log(vapor_pressure(c, t + dt)) - np.log(vapor_pressure(c, t - dt))
+    return _out(GAS_CONSTANT * t**2 * dlnp / (2 * dt) / c.molar_mass)

@@ -16,6 +16,8 @@ TARGET_COLOR = "#a52a2a"
 WINDOW_COLOR = "#9ccc9c"
 TUB_COLOR = "#c0504d"
 ICE_COLOR = "#4a90c2"
+SOLVENT_COLOR = "#7b3f99"
+BOIL_COLOR = "#2e8b57"
 
 
 def _pyplot():
@@ -45,13 +47,23 @@ def pressure_figure(result, unit: str = "mbar"):
     ax.plot(t, pressure_in(result.series["vapor_pressure_pa"], unit), color=FLOOR_COLOR, lw=1.3, ls="--", label="tub fluid vapor pressure (floor)")
     if s["target_pressure_pa"] is not None:
         ax.axhline(pressure_in(s["target_pressure_pa"], unit), color=TARGET_COLOR, lw=1.2, ls=":", label=f"target {pressure_in(s['target_pressure_pa'], unit):.3g} {label}")
+    if "solvent_partial_pressure_pa" in result.series and np.any(result.series["solvent_partial_pressure_pa"] > 0.01 * result.series["vapor_pressure_pa"]):
+        ax.plot(t, pressure_in(result.series["floor_pressure_pa"], unit), color=SOLVENT_COLOR, lw=1.3, ls="-.", label="floor with absorbed distillate")
     ax.set_yscale("log")
     ax.set_xlabel("time [min]")
     ax.set_ylabel(f"pressure [{label}]")
     ax.set_xlim(0, t[-1])
     ax.grid(True, which="both", alpha=0.3)
     ax.set_title(f"{s['scenario']}: pump-down and drift")
-    ax.legend(loc="upper right", fontsize=8)
+    handles, labels = ax.get_legend_handles_labels()
+    if "target_boiling_temperature_k" in result.series:
+        ax2 = ax.twinx()
+        compound = result.scenario.target.compound
+        line = ax2.plot(t, result.series["target_boiling_temperature_k"] - c.ZERO_CELSIUS, color=BOIL_COLOR, lw=1.2, label=f"{compound} boils at [°C]")
+        ax2.set_ylabel(f"{compound} boiling (head) temperature [°C]", color=BOIL_COLOR)
+        handles += line
+        labels += [line[0].get_label()]
+    ax.legend(handles, labels, loc="upper right", fontsize=8)
     return fig
 
 
