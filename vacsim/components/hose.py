@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 
 from ..properties import air
@@ -40,12 +42,21 @@ def conductance(inner_diameter, length, mean_pressure, temperature=293.15):
     d_cm = np.asarray(inner_diameter) * 100.0
     l_cm = np.asarray(length) * 100.0
     p_mbar = np.asarray(mean_pressure) / 100.0
-    viscosity_ratio = air.viscosity(_REFERENCE_TEMPERATURE) / air.viscosity(temperature)
-    thermal_ratio = np.sqrt(np.asarray(temperature) / _REFERENCE_TEMPERATURE)
+    if np.ndim(temperature) == 0:
+        viscosity_ratio, thermal_ratio = _temperature_ratios(float(temperature))
+    else:
+        viscosity_ratio = air.viscosity(_REFERENCE_TEMPERATURE) / air.viscosity(temperature)
+        thermal_ratio = np.sqrt(np.asarray(temperature) / _REFERENCE_TEMPERATURE)
     viscous = _VISCOUS_COEFF * d_cm**4 * p_mbar / l_cm * viscosity_ratio  # Hagen-Poiseuille
     dp = d_cm * p_mbar
     molecular = _MOLECULAR_COEFF * d_cm**3 / l_cm * (1.0 + 192.0 * dp) / (1.0 + 237.0 * dp) * thermal_ratio
     return (viscous + molecular) * 1.0e-3  # L/s -> m^3/s
+
+
+@lru_cache(maxsize=64)
+def _temperature_ratios(temperature: float) -> tuple[float, float]:
+    """(viscous, molecular) scale factors from 20 degC to `temperature` (cached: the RHS asks often)."""
+    return float(air.viscosity(_REFERENCE_TEMPERATURE) / air.viscosity(temperature)), (temperature / _REFERENCE_TEMPERATURE) ** 0.5
 
 
 def series_speed(pump_speed, conductance_value):
