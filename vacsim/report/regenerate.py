@@ -1,0 +1,39 @@
+"""Regenerate results/ from the demo scenarios: `python -m vacsim.report.regenerate`.
+
+Each job is one vacsim command line; they run in order, each in a fresh interpreter, so a
+failure names the command that failed. Outputs go to results/<name>/.
+"""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[2]
+SCENARIOS = ROOT / "scenarios"
+
+
+def jobs() -> list[list[str]]:
+    """The command lines that make results/ (without the leading 'vacsim')."""
+    out = [["run", str(p.relative_to(ROOT)), "--out", f"results/{p.stem}"] for p in sorted(SCENARIOS.glob("*.toml"))]
+    out += [list(job) for job in EXTRA_JOBS]
+    return out
+
+
+# Answers built on runs (planning, fits, uncertainty); each writes its own results folder.
+EXTRA_JOBS: tuple[tuple[str, ...], ...] = ()
+
+
+def main() -> int:
+    for args in jobs():
+        print("vacsim", " ".join(args), flush=True)
+        done = subprocess.run([sys.executable, "-c", "from vacsim.cli import main; main()", *args], cwd=ROOT, capture_output=True, text=True)
+        if done.returncode != 0:
+            sys.stderr.write(done.stderr)
+            return done.returncode
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
