@@ -212,6 +212,11 @@ def pressure_in(value_pa: float, unit: str) -> float:
     return value_pa / PRESSURE_UNITS[unit.lower()]
 
 
+def throughput_in(value_pa_m3_s: float, unit: str) -> float:
+    """A throughput [Pa m^3/s] in <unit>*L/s (1 Pa m^3/s = 10 mbar L/s)."""
+    return pressure_in(value_pa_m3_s, unit) / 1.0e-3
+
+
 def format_pressure(value_pa: float | None, unit: str = "mbar") -> str:
     """A pressure [Pa] as display text with sensible significant figures."""
     if value_pa is None:

@@ -31,6 +31,7 @@ def write_text_atomic(path: Path, text: str) -> Path:
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="") as fh:
             fh.write(text)
+        os.chmod(tmp, 0o644)  # mkstemp makes files owner-only; results are for sharing
         os.replace(tmp, path)
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
@@ -46,6 +47,7 @@ def save_figure_atomic(fig, path: Path, dpi: int = 120) -> Path:
     os.close(fd)
     try:
         fig.savefig(tmp, dpi=dpi)
+        os.chmod(tmp, 0o644)
         os.replace(tmp, path)
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
