@@ -22,7 +22,9 @@ def jobs() -> list[list[str]]:
 
 
 # Answers built on runs (planning, fits, uncertainty); each writes its own results folder.
-EXTRA_JOBS: tuple[tuple[str, ...], ...] = ()
+EXTRA_JOBS: tuple[tuple[str, ...], ...] = (
+    ("leak", "scenarios/logs/leak-test-demo.csv", "--volume", "2.5 L", "--scenario", "scenarios/bench-tap-water.toml", "--out", "results/leak-test-demo"),
+)
 
 
 def main() -> int:
