@@ -3,9 +3,7 @@
 from __future__ import annotations
 
 import json
-import math
 import sys
-from typing import Any
 
 import typer
 from rich.console import Console
@@ -30,22 +28,11 @@ SAFETY_LINES = (
 PRESSURE_UNIT_HELP = "Display unit for pressures: mbar, torr, pa, inhg or psi."
 
 
-def _clean(obj: Any) -> Any:
-    """Make an object JSON-safe: NaN/inf become null, numpy scalars become floats."""
-    if isinstance(obj, dict):
-        return {str(k): _clean(v) for k, v in obj.items()}
-    if isinstance(obj, (list, tuple)):
-        return [_clean(v) for v in obj]
-    if hasattr(obj, "item") and not isinstance(obj, (str, bytes)):
-        obj = obj.item()
-    if isinstance(obj, float) and not math.isfinite(obj):
-        return None
-    return obj
-
-
 def emit_json(obj: dict) -> None:
     """Print one JSON object to stdout (the `--json` contract)."""
-    sys.stdout.write(json.dumps(_clean(obj), indent=2) + "\n")
+    from ..report.files import json_safe
+
+    sys.stdout.write(json.dumps(json_safe(obj), indent=2) + "\n")
     sys.stdout.flush()
 
 

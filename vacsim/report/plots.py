@@ -33,6 +33,31 @@ def _minutes(t):
     return np.asarray(t) / 60.0
 
 
+def _schedule_label(entry) -> str:
+    parts = []
+    if entry.add_ice:
+        parts.append(f"+{entry.add_ice:.3g} kg ice")
+    if entry.vent:
+        parts.append("vent")
+    elif entry.vent is False:
+        parts.append("close vent")
+    if entry.pump:
+        parts.append(f"pump {entry.pump}")
+    if entry.ambient_temperature is not None:
+        parts.append(f"room {entry.ambient_temperature - c.ZERO_CELSIUS:.0f} °C")
+    if entry.coolant_temperature is not None:
+        parts.append(f"coolant {entry.coolant_temperature - c.ZERO_CELSIUS:.0f} °C")
+    return ", ".join(parts)
+
+
+def mark_schedule(ax, scenario) -> None:
+    """Thin vertical lines, labelled at the top, where schedule entries act."""
+    for entry in scenario.schedule:
+        ax.axvline(entry.at / 60.0, color="0.45", lw=0.8, ls=(0, (2, 2)))
+        ax.annotate(_schedule_label(entry), (entry.at / 60.0, 1.0), xycoords=("data", "axes fraction"), rotation=90,
+                    va="top", ha="right", fontsize=7, color="0.3", xytext=(-2, -2), textcoords="offset points")
+
+
 def pressure_figure(result, unit: str = "mbar"):
     """Apparatus pressure (log scale) against time, the fluid's vapor-pressure floor, the
     target and the usable window(s) shaded."""
@@ -55,6 +80,7 @@ def pressure_figure(result, unit: str = "mbar"):
     ax.set_xlim(0, t[-1])
     ax.grid(True, which="both", alpha=0.3)
     ax.set_title(f"{s['scenario']}: pump-down and drift")
+    mark_schedule(ax, result.scenario)
     handles, labels = ax.get_legend_handles_labels()
     if "target_boiling_temperature_k" in result.series:
         ax2 = ax.twinx()
@@ -63,7 +89,7 @@ def pressure_figure(result, unit: str = "mbar"):
         ax2.set_ylabel(f"{compound} boiling (head) temperature [°C]", color=BOIL_COLOR)
         handles += line
         labels += [line[0].get_label()]
-    ax.legend(handles, labels, loc="upper right", fontsize=8)
+    ax.legend(handles, labels, loc="center right", fontsize=8, framealpha=0.9)
     return fig
 
 
@@ -85,6 +111,7 @@ def tub_figure(result):
     lines = ax.get_lines() + ax2.get_lines()
     ax.legend(lines, [ln.get_label() for ln in lines], loc="upper left", fontsize=8)
     ax.set_title(f"{s['scenario']}: tub")
+    mark_schedule(ax, result.scenario)
     return fig
 
 
