@@ -125,9 +125,16 @@ def test_plain_water_floor_is_vapor_pressure_plus_a_few_mbar():
 def test_tap_fed_rig_lands_in_10_to_20_mmhg(water_c, feed_bar):
     # Gattermann-Wieland, Laboratory Methods of Organic Chemistry: tap-water aspirators reach
     # 10-20 mmHg depending on water temperature and pressure.
+    # the tap main as a constant-pressure source: a flat 'pump curve' at the line pressure
     s = load_scenario(
         SCENARIOS / "bench-tap-water.toml",
-        [f"tub.initial_temperature={water_c} degC", f"run.ambient_temperature={water_c} degC", f"feed_pump.shutoff_pressure={feed_bar * 1.6} bar", "run.duration=20 min"],
+        [
+            f"tub.initial_temperature={water_c} degC",
+            f"run.ambient_temperature={water_c} degC",
+            "feed_pump.curve=table",
+            f'feed_pump.points=[["0 L/min", "{feed_bar} bar"], ["30 L/min", "{feed_bar} bar"]]',
+            "run.duration=20 min",
+        ],
     )
     r = simulate(s)
     assert 10.0 <= r.summary["min_pressure_pa"] / c.MMHG <= 20.0
