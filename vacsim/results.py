@@ -76,6 +76,36 @@ def usable_windows(duration, target, crossings, pump_stops, vents, p0, pump_on_a
     return windows
 
 
+# Pump-down counts as stalled once the pressure changes by less than this share per second.
+STALL_RATE = 1e-4  # 1/s, i.e. 0.6 % per minute
+
+
+def stall_time(time, pressure, pump_on, target):
+    """First time [s] the pump-down levels off above the target (None if it never does)."""
+    if target is None or len(time) < 3:
+        return None
+    t = np.asarray(time, dtype=float)
+    keep = np.concatenate([[True], np.diff(t) > 0])
+    t, p, on = t[keep], np.asarray(pressure)[keep], np.asarray(pump_on)[keep]
+    rate = np.abs(np.gradient(p, t)) / p
+    stalled = (rate < STALL_RATE) & (p > target) & (on > 0) & (t > 0)
+    below = np.flatnonzero(p <= target)
+    if below.size:
+        stalled &= t < t[below[0]]
+    idx = np.flatnonzero(stalled)
+    return float(t[idx[0]]) if idx.size else None
+
+
+def run_events(target, crossings, ice_gone_s, stalled_s):
+    """The run's events in time order: target reached / lost, ice gone, pump-down stalled."""
+    events = [{"event": "target_reached" if d < 0 else "target_lost", "time_s": t} for t, d in crossings]
+    if ice_gone_s is not None:
+        events.append({"event": "ice_gone", "time_s": ice_gone_s})
+    if stalled_s is not None:
+        events.append({"event": "pumpdown_stalled", "time_s": stalled_s})
+    return sorted(events, key=lambda e: e["time_s"])
+
+
 def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, vents, ice_gone_s, ultimate_start, start_fluxes, warnings):
     """The summary figures of a run (summary.json); SI units, None where not applicable."""
     p = series["pressure_pa"]
@@ -84,6 +114,7 @@ def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, ven
     windows = usable_windows(duration, target, crossings, pump_stops, vents, float(p[0]))
     first = _first_window(windows)
     warnings = list(warnings)
+    stalled_s = stall_time(time, p, series["pump_on"], target) if first is None else None
     if target is not None and first is None:
         pumping = series["pump_on"] > 0
         p_min = float(np.min(p[pumping])) if pumping.any() else float(np.min(p))
@@ -93,7 +124,7 @@ def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, ven
                 "target_not_reached",
                 f"never reached the {target / 100:.1f} mbar target: the lowest pressure was {p_min / 100:.1f} mbar "
                 f"(fluid vapor-pressure floor {floor_min / 100:.1f} mbar); pump-down stalled above the target.",
-                None,
+                stalled_s,
             )
         )
     return {
@@ -106,6 +137,7 @@ def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, ven
         "usable_end_s": first[1] if first else None,
         "usable_duration_s": (first[1] - first[0]) if first else 0.0,
         "usable_windows": [{"start_s": a, "end_s": b, "duration_s": b - a} for a, b in windows],
+        "events": run_events(target, crossings, ice_gone_s, stalled_s),
         "min_pressure_pa": float(np.min(p)),
         "final_pressure_pa": float(p[-1]),
         "ultimate_pressure_start_pa": ultimate_start,

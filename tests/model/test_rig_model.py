@@ -224,3 +224,25 @@ def test_cooler_room_never_shortens_the_run(g, cooler):
 def test_larger_tub_never_shortens_the_run(g, factor):
     g = dict(g, ice_kg=0.0)
     assert _not_shorter(_usable(_raw(g, tub_l=g["tub_l"] * factor)), _usable(_raw(g)))
+
+
+def test_events_listed_in_time_order():
+    r = simulate(load_scenario(SCENARIOS / "bench-iced.toml"))
+    kinds = [e["event"] for e in r.summary["events"]]
+    assert kinds == ["target_reached", "ice_gone"]
+    stalled = simulate(load_scenario(SCENARIOS / "leaky-long-hose.toml")).summary["events"]
+    assert [e["event"] for e in stalled] == ["pumpdown_stalled"]
+
+
+def test_failed_solve_raises_with_solver_message(monkeypatch):
+    from types import SimpleNamespace
+
+    import vacsim.simulation as simulation
+    from vacsim.errors import SolverError
+
+    def failing(*args, **kwargs):
+        return SimpleNamespace(status=-1, message="Required step size is less than spacing between numbers.", nfev=1, njev=0, nlu=0)
+
+    monkeypatch.setattr(simulation, "solve_ivp", failing)
+    with pytest.raises(SolverError, match="Required step size"):
+        simulate(load_scenario(SCENARIOS / "bench-tap-water.toml"))
