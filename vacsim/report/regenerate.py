@@ -23,6 +23,14 @@ def jobs() -> list[list[str]]:
 
 # Answers built on runs (planning, fits, uncertainty); each writes its own results folder.
 EXTRA_JOBS: tuple[tuple[str, ...], ...] = (
+    ("ice", "scenarios/bench-iced.toml", "--out", "results/bench-iced-ice"),
+    ("ice", "scenarios/bench-iced.toml", "--set", "tub.ice=0.5 kg", "--top-up", "45 min", "--hold", "10 mbar", "--out", "results/bench-iced-top-up-plan"),
+    ("sweep", "scenarios/bench-iced.toml", "--vary", "tub.ice=0..3kg", "--steps", "13", "--out", "results/bench-iced-sweep-ice"),
+    ("sweep", "scenarios/bench-tap-water.toml", "--vary", "tub.liquid_volume=5..40L", "--steps", "8",
+     "--vary", "run.ambient_temperature=18..30degC", "--steps", "7", "--out", "results/bench-tap-water-sweep-tub-room"),
+    ("compare", "scenarios/bench-iced.toml", "scenarios/glycol-chilled.toml", "--out", "results/glycol-vs-ice"),
+    ("compare", "scenarios/bench-iced.toml", "scenarios/glycol-chilled.toml", "--hold", "10 mbar", "--out", "results/glycol-vs-ice-10mbar"),
+    ("compare", "scenarios/bench-tap-water.toml", "scenarios/big-tub.toml", "scenarios/bench-iced.toml", "--hold", "25 mbar", "--out", "results/tub-choices"),
     ("leak", "scenarios/logs/leak-test-demo.csv", "--volume", "2.5 L", "--scenario", "scenarios/bench-tap-water.toml", "--out", "results/leak-test-demo"),
 )
 
