@@ -350,7 +350,7 @@ def apply_entry(entry, controls: Controls, y: np.ndarray, rig: Rig) -> tuple[Con
     changes = {}
     if entry.add_ice:
         changes["ice_pieces"] = controls.ice_pieces + tub.ice_piece_count(entry.add_ice, rig.ice_piece_size, rig.ice_density)
-        y[ICE] = max(y[ICE], 0.0) + entry.add_ice
+        y[ICE] = np.maximum(y[ICE], 0.0) + entry.add_ice
     if entry.ambient_temperature is not None:
         changes["ambient_temperature"] = entry.ambient_temperature
     if entry.pump is not None:
@@ -362,8 +362,9 @@ def apply_entry(entry, controls: Controls, y: np.ndarray, rig: Rig) -> tuple[Con
         changes["vented"] = bool(entry.vent)
         if entry.vent:
             y[P] = rig.barometric_pressure
-    if y[ICE] <= ICE_GONE_KG:
-        changes["ice_pieces"] = 0.0 if not entry.add_ice else changes.get("ice_pieces", controls.ice_pieces)
+    gone = y[ICE] <= ICE_GONE_KG  # one flag per column when y holds a batch of states
+    if not entry.add_ice and np.any(gone):
+        changes["ice_pieces"] = np.where(gone, 0.0, controls.ice_pieces) if np.ndim(gone) else 0.0
     return replace(controls, **changes), y
 
 
@@ -445,7 +446,7 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
     floor = p_v + p_solvent + excess
 
     room = tub.room_heat_flow(rig.ua, controls.ambient_temperature, temp)
-    if controls.ice_pieces > 0:
+    if np.any(np.asarray(controls.ice_pieces) > 0):  # per-column piece counts in a batch
         area = tub.ice_surface_area(m_ice, controls.ice_pieces, rig.ice_density)
         q_melt = tub.melt_heat_flow(rig.ice_heat_transfer, area, temp, t_f)
     else:
@@ -483,7 +484,7 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
 def rhs(t: float, y: np.ndarray, rig: Rig, controls: Controls) -> np.ndarray:
     """dy/dt of the whole rig."""
     f = fluxes(rig, controls, y)
-    dy = np.empty(len(STATE))
+    dy = np.empty((len(STATE),) + np.shape(y)[1:])  # (n_states,) or (n_states, columns...)
     if controls.vented:
         dy[P] = 0.0
     else:

@@ -269,6 +269,8 @@ class Scenario(_Section):
     condenser: Condenser | None = None
     trap: Trap | None = None
     schedule: list[ScheduleEntry] = []
+    uncertain: dict[str, Any] | None = None  # raw; validated by vacsim.analysis.uncertain
+    fitted: dict[str, Any] | None = None  # written by `vacsim fit --save`: {key: {value, stderr}} in SI
     _raw: dict = PrivateAttr(default_factory=dict)
     _source: str = PrivateAttr(default="scenario")
 
