@@ -73,8 +73,18 @@ def test_iced_demo_json_keys(iced_plan):
     assert JSON_KEYS <= set(data)
     assert data["schedule"] == [{"at_s": 0.0, "ice_kg": iced_plan.ice_kg}]
     assert data["reason"] is None and data["target_pressure_pa"] == pytest.approx(1500.0)  # 15 mbar in the file
-    # no tub.capacity in the demo: the fit cannot be checked, and the plan says so
-    assert data["fits"] is None and any(w["code"] == "capacity_unknown" for w in data["warnings"])
+    # the demo tub holds 14 L: 10 L of water and a kilo of ice fit
+    assert data["fits"] is True and not any(w["code"].startswith(("capacity", "ice_does")) for w in data["warnings"])
+
+
+def test_ice_that_does_not_fit_is_flagged():
+    s = load_scenario(ICED, ["tub.capacity=10.5 L"])
+    data = solve_ice(s).to_json()
+    assert data["fits"] is False and any(w["code"] == "ice_does_not_fit" for w in data["warnings"])
+    raw = raw_of(load_scenario(ICED))
+    del raw["tub"]["capacity"]
+    unknown = solve_ice(build_scenario(raw, "no-capacity")).to_json()
+    assert unknown["fits"] is None and any(w["code"] == "capacity_unknown" for w in unknown["warnings"])
 
 
 def test_energy_guess_is_close_to_the_answer(iced_plan):

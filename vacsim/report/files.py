@@ -64,6 +64,7 @@ def output_directory(final: Path):
     final = Path(final)
     final.parent.mkdir(parents=True, exist_ok=True)
     staging = Path(tempfile.mkdtemp(dir=final.parent, prefix=f".{final.name}.staging."))
+    os.chmod(staging, 0o755)  # mkdtemp makes it owner-only; results are for sharing
     try:
         yield staging
     except BaseException:
