@@ -31,6 +31,11 @@ EXTRA_JOBS: tuple[tuple[str, ...], ...] = (
     ("compare", "scenarios/bench-iced.toml", "scenarios/glycol-chilled.toml", "--out", "results/glycol-vs-ice"),
     ("compare", "scenarios/bench-iced.toml", "scenarios/glycol-chilled.toml", "--hold", "10 mbar", "--out", "results/glycol-vs-ice-10mbar"),
     ("compare", "scenarios/bench-tap-water.toml", "scenarios/big-tub.toml", "scenarios/bench-iced.toml", "--hold", "25 mbar", "--out", "results/tub-choices"),
+    ("fit", "scenarios/fit-demo-rig.toml", "scenarios/logs/fit-gauge-demo.csv", "--out", "results/fit-gauge-demo", "--save", "results/fit-gauge-demo/calibrated.toml"),
+    ("fit", "scenarios/fit-demo-rig.toml", "scenarios/logs/fit-head-temperature-demo.csv", "--compound", "water", "--out", "results/fit-head-temperature-demo", "--save", "results/fit-head-temperature-demo/calibrated.toml"),
+    ("fit", "scenarios/fit-demo-rig.toml", "scenarios/logs/fit-short-demo.csv", "--out", "results/fit-short-demo", "--save", "results/fit-short-demo/calibrated.toml"),
+    ("spread", "scenarios/bench-iced-uncertain.toml", "--samples", "1000", "--seed", "1", "--out", "results/spread-bench-iced"),
+    ("sensitivity", "scenarios/bench-iced-uncertain.toml", "--out", "results/sensitivity-bench-iced"),
     ("leak", "scenarios/logs/leak-test-demo.csv", "--volume", "2.5 L", "--scenario", "scenarios/bench-tap-water.toml", "--out", "results/leak-test-demo"),
 )
 
