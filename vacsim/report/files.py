@@ -55,6 +55,17 @@ def save_figure_atomic(fig, path: Path, dpi: int = 120) -> Path:
     return path
 
 
+def save_figures(figs: dict, out_dir) -> dict:
+    """Save {file name: figure} atomically into `out_dir` and close them; returns {name: path}."""
+    import matplotlib.pyplot as plt
+
+    paths = {}
+    for name, fig in figs.items():
+        paths[name] = save_figure_atomic(fig, Path(out_dir) / name)
+        plt.close(fig)
+    return paths
+
+
 @contextmanager
 def output_directory(final: Path):
     """Build an output folder in a temporary sibling and swap it in only when complete.

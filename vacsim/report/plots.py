@@ -8,7 +8,7 @@ import numpy as np
 
 from .. import constants as c
 from ..units import PRESSURE_LABELS, pressure_in
-from .files import save_figure_atomic
+from .files import save_figure_atomic, save_figures
 
 PRESSURE_COLOR = "#1f4e79"
 FLOOR_COLOR = "#b8860b"
@@ -117,12 +117,5 @@ def tub_figure(result):
 
 def run_figures(result, out_dir=None, unit: str = "mbar"):
     """Both run figures; saved as pressure.png and tub.png in `out_dir` when given."""
-    plt = _pyplot()
     figs = {"pressure.png": pressure_figure(result, unit), "tub.png": tub_figure(result)}
-    if out_dir is None:
-        return figs
-    paths = {}
-    for name, fig in figs.items():
-        paths[name] = save_figure_atomic(fig, Path(out_dir) / name)
-        plt.close(fig)
-    return paths
+    return figs if out_dir is None else save_figures(figs, out_dir)

@@ -7,7 +7,7 @@ from pathlib import Path
 import numpy as np
 
 from ..units import PRESSURE_LABELS, pressure_in
-from .files import save_figure_atomic
+from .files import save_figure_atomic, save_figures
 from .plots import PRESSURE_COLOR, TARGET_COLOR, _pyplot, mark_schedule
 
 BAND_COLOR = "#8fb3d9"
@@ -65,15 +65,8 @@ def usable_histogram(spread):
 
 def spread_figures(spread, out_dir=None, unit: str = "mbar"):
     """spread.png (fan chart) and usable-duration.png (histogram); saved to `out_dir` if given."""
-    plt = _pyplot()
     figs = {"spread.png": fan_chart(spread, unit), "usable-duration.png": usable_histogram(spread)}
-    if out_dir is None:
-        return figs
-    paths = {}
-    for name, fig in figs.items():
-        paths[name] = save_figure_atomic(fig, Path(out_dir) / name)
-        plt.close(fig)
-    return paths
+    return figs if out_dir is None else save_figures(figs, out_dir)
 
 
 def sensitivity_chart(result):
