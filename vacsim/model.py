@@ -222,6 +222,8 @@ def build_rig(s: Scenario) -> Rig:
             )
     if "motive_degassing" not in s.ejector.model_fields_set:
         assumptions.append(Assumption("ejector.motive_degassing", ej.motive_degassing, "-", "estimate (from memory: 0.01-0.1 of the motive liquid's dissolved air released at suction)"))
+    if "ice_temperature" not in tb.model_fields_set and (tb.ice > 0 or any(e.add_ice for e in s.schedule)):
+        assumptions.append(Assumption("tub.ice_temperature", tb.ice_temperature, "K", "estimate: melting ice at 0 degC; freezer ice (-18 degC) absorbs about 11 % more heat per kg"))
     if "ice_piece_size" not in tb.model_fields_set and tb.ice > 0:
         assumptions.append(Assumption("tub.ice_piece_size", tb.ice_piece_size, "m", "common practice: ice cube edge"))
     if s.run.barometric_pressure is None and s.run.altitude is None:
