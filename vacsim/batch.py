@@ -201,6 +201,7 @@ def simulate_batch(
     boundaries = sorted({e.at for e in entries if 0.0 < e.at < duration} | {duration})
     pump_stops: list[float] = []
     vents: list[float] = []
+    resumes: list[tuple[float, np.ndarray]] = []  # (time, pressure per sample) when pumping resumes
     stats = {"method": "LSODA (batched)", "nfev": 0, "njev": 0, "segments": 0, "samples": n}
     segments = []  # (t0, t1, OdeSolution)
     last_ice_added = 0.0
@@ -219,6 +220,9 @@ def simulate_batch(
 
     for e in (e for e in entries if e.at == 0.0):
         ctl, y = apply(e, ctl, y)
+    pump_stops.clear()
+    vents.clear()
+    pumping_at_start = ctl.pump_on and not ctl.vented
     t = 0.0
     start_pressure = y[P, :, 0].copy()
     for t_end in boundaries:
@@ -239,7 +243,10 @@ def simulate_batch(
             y[slots, :, 0] = sol.y[:, -1].reshape(n, na).T
             t = t_end
         for e in (e for e in entries if e.at == t_end):
+            was_pumping = ctl.pump_on and not ctl.vented
             ctl, y = apply(e, ctl, y)
+            if ctl.pump_on and not ctl.vented and not was_pumping:
+                resumes.append((t_end, y[P, :, 0].copy()))
 
     record = np.unique(np.append(np.arange(0.0, duration, record_step), duration))
     rec = {name: np.empty((n, record.size)) for name in ("p", "T", "ice")}
@@ -279,7 +286,10 @@ def simulate_batch(
         if targets is None:
             all_windows.append([])
             continue
-        windows = usable_windows(duration, float(targets[j]), sorted(crossings[j]), pump_stops, vents, float(start_pressure[j]))
+        windows = usable_windows(
+            duration, float(targets[j]), sorted(crossings[j]), pump_stops, vents, float(start_pressure[j]),
+            pumping_at_start, [(t_r, float(p_r[j])) for t_r, p_r in resumes],
+        )
         all_windows.append(windows)
         if windows:
             first[j] = windows[0][0]

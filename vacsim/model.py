@@ -214,12 +214,6 @@ def build_rig(s: Scenario) -> Rig:
         measured_p = np.array([p for p, _ in ej.measured])
         s_air = np.array([v for _, v in ej.measured])
         pv_meas = float(fluid.vapor_pressure("none", 0.0, ej.measured_at))
-        if measured_p[0] <= pv_meas:
-            from .errors import InputError
-
-            raise InputError(
-                f"ejector.measured: the lowest point ({measured_p[0] / 100:.1f} mbar) is at or below the vapor pressure of water at measured_at"
-            )
     if "motive_degassing" not in s.ejector.model_fields_set:
         assumptions.append(Assumption("ejector.motive_degassing", ej.motive_degassing, "-", "estimate (from memory: 0.01-0.1 of the motive liquid's dissolved air released at suction)"))
     if "ice_temperature" not in tb.model_fields_set and (tb.ice > 0 or any(e.add_ice for e in s.schedule)):
@@ -282,7 +276,7 @@ def _build_distillation(s: Scenario, table: FluidTable, assumptions: list) -> Di
     if pot is not None and pot.boil_up_rate is not None:
         boil = pot.boil_up_rate
     elif pot is not None and pot.heat_input is not None:
-        t_ref = s.target.boiling_temperature or s.target.pot_temperature if s.target and s.target.compound else t_gas
+        t_ref = (s.target.boiling_temperature or s.target.pot_temperature) if (s.target and s.target.compound) else t_gas
         boil = pot.heat_input / float(solvents.latent_heat_vaporization(comp, t_ref))
         assumptions.append(Assumption("pot.boil_up_rate", boil, "kg/s", "heat_input / latent heat at the target boiling temperature (Clausius-Clapeyron)"))
     else:
@@ -417,8 +411,9 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
         q_j = rig.motive_flow(p)
         s_tot = ejector_total_speed(rig, p, q_j)
         pump_heat = feed_pump.hydraulic_power(q_j, rig.pump_rise(p)) + rig.motor_heat
-        # Air the motive liquid releases at suction takes part of the jet's air throughput.
-        released = rig.motive_degassing * q_j * tab.dissolved_air_pv(temp) * np.clip(1.0 - p / rig.barometric_pressure, 0.0, 1.0)
+        # Air the motive liquid releases at suction takes part of the jet's air throughput
+        # (a measured dry-air curve is already net of it).
+        released = (0.0 if rig.measured_pressure is not None else rig.motive_degassing) * q_j * tab.dissolved_air_pv(temp) * np.clip(1.0 - p / rig.barometric_pressure, 0.0, 1.0)
         with np.errstate(divide="ignore", invalid="ignore"):
             excess = np.where(s_tot > 0, released / np.where(s_tot > 0, s_tot, 1.0), 0.0)
     else:
@@ -453,8 +448,9 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
         q_melt = tub.melt_heat_flow(rig.ice_heat_transfer, area, temp, t_f)
     else:
         q_melt = temp * 0.0
-    # Ice colder than the solution's freezing point first warms to it, then melts there.
-    latent = tab.latent_heat(w) + tab.ice_heat_capacity(w) * np.maximum(t_f - rig.ice_temperature, 0.0)
+    # Ice goes from its own temperature to the solution's freezing point (warming freezer ice,
+    # or cooling 0 degC ice into a brine: the enthalpy path is the same), then melts there.
+    latent = tab.latent_heat(w) + tab.ice_heat_capacity(w) * (t_f - rig.ice_temperature)
     mdot = q_melt / latent
     meltwater = mdot * tab.water_heat_capacity(temp) * (temp - t_f)
     cp_liquid = tab.heat_capacity(w, temp)

@@ -50,22 +50,44 @@ def _first_window(windows):
     return windows[0] if windows else None
 
 
-def usable_windows(duration, target, crossings, pump_stops, vents, p0, pump_on_at_start=True):
+def usable_windows(duration, target, crossings, pump_stops, vents, p0, pump_on_at_start=True, resumes=()):
     """Windows [start, end] [s] in which the apparatus is at or below the target pressure.
 
-    A window opens when the pressure falls to the target and closes at the first later time
-    it rises above it, the pump stops, the apparatus is vented, or the run ends.
+    A window opens when the pressure falls to the target while the pump runs on the closed
+    apparatus, or when pumping resumes (pump restarted, vent closed) with the pressure already at
+    or below it; it closes at the first later time the pressure rises above the target, the pump
+    stops, the apparatus is vented, or the run ends.
+
+    Parameters
+    ----------
+    crossings : list of (time [s], direction)
+        Target crossings, direction -1 falling and +1 rising.
+    pump_stops, vents : list of float
+        Times [s] pumping stopped or the apparatus was opened.
+    p0 : float
+        Pressure at t = 0 [Pa].
+    resumes : list of (time [s], pressure [Pa])
+        Times pumping on the closed apparatus resumed, with the pressure then.
     """
     if target is None:
         return []
     marks = sorted(
-        [(t, "down" if d < 0 else "up") for t, d in crossings] + [(t, "stop") for t in pump_stops] + [(t, "vent") for t in vents],
+        [(t, "down" if d < 0 else "up", None) for t, d in crossings]
+        + [(t, "stop", None) for t in pump_stops]
+        + [(t, "vent", None) for t in vents]
+        + [(t, "resume", p) for t, p in resumes],
         key=lambda m: m[0],
     )
     windows = []
-    start = 0.0 if (p0 <= target and pump_on_at_start) else None
-    for t, kind in marks:
-        if kind == "down" and start is None:
+    pumping = pump_on_at_start
+    start = 0.0 if (p0 <= target and pumping) else None
+    for t, kind, p in marks:
+        if kind in ("stop", "vent"):
+            pumping = False
+        if kind == "resume":
+            pumping = True
+        opens = (kind == "down" and pumping) or (kind == "resume" and p <= target)
+        if opens and start is None:
             start = t
         elif kind in ("up", "stop", "vent") and start is not None:
             if t > start:
@@ -106,23 +128,25 @@ def run_events(target, crossings, ice_gone_s, stalled_s):
     return sorted(events, key=lambda e: e["time_s"])
 
 
-def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, vents, ice_gone_s, ultimate_start, start_fluxes, warnings):
+def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, vents, ice_gone_s, ultimate_start, start_fluxes, warnings, resumes=(), pump_on_at_start=True):
     """The summary figures of a run (summary.json); SI units, None where not applicable."""
     p = series["pressure_pa"]
     temp = series["tub_temperature_k"]
     duration = float(time[-1])
-    windows = usable_windows(duration, target, crossings, pump_stops, vents, float(p[0]))
+    windows = usable_windows(duration, target, crossings, pump_stops, vents, float(p[0]), pump_on_at_start, resumes)
     first = _first_window(windows)
     warnings = list(warnings)
     stalled_s = stall_time(time, p, series["pump_on"], target) if first is None else None
-    if target is not None and first is None:
-        pumping = series["pump_on"] > 0
-        p_min = float(np.min(p[pumping])) if pumping.any() else float(np.min(p))
-        floor_min = float(np.min(series["floor_pressure_pa"]))
+    pumping = (series["pump_on"] > 0) & (series["vented"] < 1)
+    if target is not None and first is None and not pumping.any():
+        warnings.append(Warning_("target_not_reached", "the pump never ran on the closed apparatus: no usable window.", None))
+    elif target is not None and first is None:
+        p_min = float(np.min(p[pumping]))
+        floor_min = float(np.min(series["floor_pressure_pa"][pumping]))
         warnings.append(
             Warning_(
                 "target_not_reached",
-                f"never reached the {target / 100:.1f} mbar target: the lowest pressure was {p_min / 100:.1f} mbar "
+                f"never reached the {target / 100:.1f} mbar target while pumping: the lowest pressure was {p_min / 100:.1f} mbar "
                 f"(fluid vapor-pressure floor {floor_min / 100:.1f} mbar); pump-down stalled above the target.",
                 stalled_s,
             )

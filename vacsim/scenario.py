@@ -469,6 +469,17 @@ def _check_physics(s: Scenario, source: str) -> None:
             f"{source}: tub.initial_temperature: {t0 - c.ZERO_CELSIUS:.1f} degC is below the freezing point "
             f"({t_freeze - c.ZERO_CELSIUS:.1f} degC) of the fluid: ice and liquid would not both be there"
         )
+    if s.ejector.measured is not None:
+        from .components.ejector import MEASURED_MARGIN
+
+        pv_meas = float(fluid.vapor_pressure("none", 0.0, s.ejector.measured_at))
+        lowest = s.ejector.measured[0][0]
+        if lowest <= MEASURED_MARGIN * pv_meas:
+            raise InputError(
+                f"{source}: ejector.measured: the lowest point ({lowest / 100:.1f} mbar) is too close to the vapor pressure of "
+                f"water at measured_at ({pv_meas / 100:.1f} mbar) to give the jet's total speed; use points above "
+                f"{MEASURED_MARGIN * pv_meas / 100:.1f} mbar"
+            )
     if s.initial_pressure > s.barometric_pressure * 1.2:
         raise InputError(f"{source}: apparatus.initial_pressure: above barometric; vacsim models evacuation only")
     from .properties import solvents

@@ -118,6 +118,7 @@ def simulate(
     crossings: list[tuple[float, int]] = []
     pump_stops: list[float] = []
     vents: list[float] = []
+    resumes: list[tuple[float, float]] = []
     ice_gone_s: float | None = None
     stats = {"nfev": 0, "njev": 0, "nlu": 0, "segments": 0}
     entries = sorted(s.schedule, key=lambda e: e.at)
@@ -127,6 +128,9 @@ def simulate(
     # entries at t = 0 apply before the run starts
     for e in (e for e in entries if e.at == 0.0):
         ctl, y = _apply(e, ctl, y, rig, warnings, pump_stops, vents)
+    ctl0, y0 = ctl, y.copy()  # the start, after any t = 0 entries
+    pump_stops.clear()
+    vents.clear()
     segments.append(_Segment(np.array([0.0]), y[:, None].copy(), ctl))
     t = 0.0
     for t_end in boundaries:
@@ -163,7 +167,10 @@ def simulate(
             segments.append(_Segment(sol.t, sol.y, ctl))
             t, y = t_end, sol.y[:, -1].copy()
         for e in (e for e in entries if e.at == t_end):
+            was_pumping = ctl.pump_on and not ctl.vented
             ctl, y = _apply(e, ctl, y, rig, warnings, pump_stops, vents)
+            if ctl.pump_on and not ctl.vented and not was_pumping:
+                resumes.append((t_end, float(y[P])))
             if e.add_ice:
                 ice_gone_s = None
             segments.append(_Segment(np.array([t_end]), y[:, None].copy(), ctl))
@@ -175,6 +182,7 @@ def simulate(
     for key in derived[0].__dataclass_fields__:
         series[key] = np.concatenate([np.broadcast_to(np.asarray(getattr(d, key), dtype=float), seg.t.shape) for d, seg in zip(derived, segments)])
     series["pump_on"] = np.concatenate([np.full(seg.t.shape, 1.0 if seg.controls.pump_on else 0.0) for seg in segments])
+    series["vented"] = np.concatenate([np.full(seg.t.shape, 1.0 if seg.controls.vented else 0.0) for seg in segments])
     series["exit_vapor_pressure_pa"] = np.concatenate([np.full(seg.t.shape, seg.controls.exit_vapor_pressure) for seg in segments])
     if s.target is not None and s.target.compound is not None:
         from .properties import solvents
@@ -184,13 +192,13 @@ def simulate(
     if rig.distillation is not None:
         _distillation_warnings(s, rig, time, series, warnings)
 
-    y0 = initial_state(s, rig)
-    ctl0 = initial_controls(s, rig)
-    ultimate0 = ultimate_pressure(rig, ctl0, y0)
+    ultimate0 = ultimate_pressure(rig, ctl0, y0) if not ctl0.vented else None
     _feed_warnings(s, rig, target, ultimate0, warnings)
+    _capacity_warning(s, rig, warnings)
     summary = summarise(
         scenario=s, rig=rig, time=time, series=series, target=target, crossings=crossings, pump_stops=pump_stops,
         vents=vents, ice_gone_s=ice_gone_s, ultimate_start=ultimate0, start_fluxes=fluxes(rig, ctl0, y0), warnings=warnings,
+        resumes=resumes, pump_on_at_start=ctl0.pump_on and not ctl0.vented,
     )
     return RunResult(scenario=s, time_s=time, series=series, summary=summary, solver={"method": method, **stats})
 
@@ -313,6 +321,25 @@ def _apply(entry, ctl, y, rig, warnings, pump_stops, vents):
     if entry.vent:
         vents.append(entry.at)
     return apply_entry(entry, ctl, y, rig)
+
+
+def _capacity_warning(s: Scenario, rig: Rig, warnings: list) -> None:
+    """Warn when the liquid and the largest load of ice would not fit in the tub."""
+    if s.tub.capacity is None:
+        return
+    ice_kg = s.tub.ice
+    for e in sorted(s.schedule, key=lambda e: e.at):
+        ice_kg += e.add_ice or 0.0  # upper bound: no melting between additions
+    volume = s.tub.liquid_volume + ice_kg / rig.ice_density
+    if volume > s.tub.capacity:
+        warnings.append(
+            Warning_(
+                "ice_overflow",
+                f"{s.tub.liquid_volume * 1e3:.1f} L of liquid and up to {ice_kg:.2f} kg of ice ({ice_kg / rig.ice_density * 1e3:.1f} L) "
+                f"exceed the tub's {s.tub.capacity * 1e3:.1f} L: it would overflow.",
+                0.0,
+            )
+        )
 
 
 def _feed_warnings(s: Scenario, rig: Rig, target: float | None, ultimate0: float | None, warnings: list) -> None:

@@ -246,3 +246,32 @@ def test_failed_solve_raises_with_solver_message(monkeypatch):
     monkeypatch.setattr(simulation, "solve_ivp", failing)
     with pytest.raises(SolverError, match="Required step size"):
         simulate(load_scenario(SCENARIOS / "bench-tap-water.toml"))
+
+
+def test_window_reopens_after_a_short_pump_stop():
+    # the pressure stays under the target during a one-minute stop: pumping resumes inside it
+    raw = read_raw(SCENARIOS / "bench-tap-water.toml")
+    raw["schedule"] = [{"at": "30 min", "pump": "off"}, {"at": "31 min", "pump": "on"}]
+    r = simulate(build_scenario(raw, "short-stop"))
+    windows = r.summary["usable_windows"]
+    assert len(windows) == 2
+    assert windows[0]["end_s"] == pytest.approx(1800.0) and windows[1]["start_s"] == pytest.approx(1860.0)
+    assert windows[1]["end_s"] > 100 * 60.0
+
+
+def test_start_figures_follow_entries_at_time_zero():
+    raw = read_raw(SCENARIOS / "bench-tap-water.toml")
+    raw["schedule"] = [{"at": "0 s", "pump": "off"}]
+    r = simulate(build_scenario(raw, "pump-off"))
+    assert r.summary["ultimate_pressure_start_pa"] is None and r.summary["usable_duration_s"] == 0.0
+    assert "never ran" in r.summary["warnings"][-1]["message"]
+    raw["schedule"] = [{"at": "0 s", "add_ice": "1 kg"}]
+    raw["tub"]["initial_temperature"] = "2 degC"
+    iced = simulate(build_scenario(raw, "ice-at-zero")).summary
+    plain = simulate(load_scenario(SCENARIOS / "bench-tap-water.toml", ["tub.initial_temperature=2 degC"])).summary
+    assert iced["ice_gone_s"] is not None and iced["max_tub_temperature_k"] < plain["max_tub_temperature_k"]
+
+
+def test_ice_overflow_warning():
+    r = simulate(load_scenario(SCENARIOS / "bench-iced.toml", ["tub.ice=5 kg"]))
+    assert "ice_overflow" in [w["code"] for w in r.summary["warnings"]]

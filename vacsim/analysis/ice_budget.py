@@ -69,7 +69,7 @@ def ice_absorbed_heat(latent_heat, ice_heat_capacity, ice_temperature, melt_temp
     float or ndarray
         Heat absorbed per kilogram of ice [J/kg].
     """
-    warm_ice = ice_heat_capacity * np.maximum(melt_temperature - ice_temperature, 0.0)
+    warm_ice = ice_heat_capacity * (melt_temperature - ice_temperature)  # negative: 0 degC ice cooling into a brine
     warm_meltwater = water_heat_capacity * np.maximum(final_temperature - melt_temperature, 0.0)
     return warm_ice + latent_heat + warm_meltwater  # sum of the enthalpy steps
 

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from .smooth import smooth_min
+
 
 def slip_throughput(noncondensable_throughput, pressure, exit_vapor_pressure, boil_up_throughput):
     """Distillate vapor carried past a condenser by the non-condensable gas flowing through it.
@@ -11,9 +13,8 @@ def slip_throughput(noncondensable_throughput, pressure, exit_vapor_pressure, bo
     The gas leaving a condenser is saturated with vapor at its exit temperature, so each unit
     of inert gas carries p_s / (p - p_s) units of vapor (Colburn & Hougen 1934, Ind. Eng.
     Chem. 26, 1178): Q_c = Q_gas p_s / (p - p_s). The slip cannot exceed what the pot boils up;
-    the two are combined harmonically, Q = Q_c Q_b / (Q_c + Q_b), which is the smaller of the two
-    where they differ much and stays smooth for the stiff solver. At or below p_s the condenser
-    cannot condense at all and all the boil-up slips.
+    the smaller of the two is taken, smoothly for the stiff solver. At or below p_s the condenser
+    cannot condense at all and all the boil-up slips. The cap is a smooth minimum (see smooth.py).
 
     Parameters
     ----------
@@ -36,5 +37,4 @@ def slip_throughput(noncondensable_throughput, pressure, exit_vapor_pressure, bo
     margin = p - exit_vapor_pressure
     with np.errstate(divide="ignore", invalid="ignore"):
         q_c = np.where(margin > 0, noncondensable_throughput * exit_vapor_pressure / np.where(margin > 0, margin, 1.0), np.inf)
-        combined = np.where(np.isinf(q_c), q_b, np.where(q_c + q_b > 0, q_c * q_b / (q_c + q_b), 0.0))
-    return combined if combined.ndim else float(combined)
+    return smooth_min(q_c, q_b)

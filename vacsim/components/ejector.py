@@ -15,6 +15,9 @@ NOZZLE_LOSS = 0.05  # K_n, C_d ~ 0.975
 THROAT_LOSS = 0.10  # K_th
 DIFFUSER_LOSS = 0.10  # K_di
 DIFFUSER_AREA_RATIO = 0.20  # a
+# A measured point must lie this far above the water's vapor pressure for S_air p/(p - p_v) to be
+# well conditioned (at 1.2 x p_v the correction is already a factor 6).
+MEASURED_MARGIN = 1.2
 CUTOFF_WIDTH = 500.0  # Pa, delta: how sharply capacity collapses near shut-off (estimate)
 
 
@@ -146,7 +149,8 @@ def cutoff_factor(suction_pressure, shutoff, width=CUTOFF_WIDTH):
     suction_pressure : float or ndarray
         Suction pressure [Pa].
     shutoff : float
-        Shut-off pressure [Pa]; values below zero are treated as zero.
+        Shut-off pressure [Pa]; a negative value (the jet could compress from below zero) leaves
+        f = 1 at every real pressure, so the fluid's vapor pressure, not the jet, sets the floor.
     width : float
         delta [Pa].
 
@@ -155,7 +159,7 @@ def cutoff_factor(suction_pressure, shutoff, width=CUTOFF_WIDTH):
     float or ndarray
         f [-], 0..1.
     """
-    excess = np.asarray(suction_pressure, dtype=float) - max(float(shutoff), 0.0)
+    excess = np.asarray(suction_pressure, dtype=float) - float(shutoff)
     return np.where(excess > 0.0, -np.expm1(-np.maximum(excess, 0.0) / width), 0.0)
 
 

@@ -5,8 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..constants import MOLAR_MASS_WATER
-
-_SMOOTH_MIN_EXPONENT = 8.0
+from .smooth import smooth_min
 
 
 def solvent_partial_pressure(solvent_moles, water_mass, liquid_volume, henry_solubility, pure_vapor_pressure):
@@ -40,5 +39,4 @@ def solvent_partial_pressure(solvent_moles, water_mass, liquid_volume, henry_sol
         dilute = n / (np.asarray(water_mass) / MOLAR_MASS_WATER) * pure_vapor_pressure
     else:
         dilute = n / liquid_volume / henry_solubility
-    ratio = dilute / pure_vapor_pressure
-    return pure_vapor_pressure * ratio * (1.0 + ratio**_SMOOTH_MIN_EXPONENT) ** (-1.0 / _SMOOTH_MIN_EXPONENT)
+    return smooth_min(dilute, pure_vapor_pressure)
