@@ -33,7 +33,7 @@ from scipy.integrate import solve_ivp
 
 from .components import tub
 from .errors import SolverError
-from .model import ICE, ICE_GONE_KG, P, POT_AIR, SOLVENT, STATE, T, WATER, Rig, apply_entry, build_rig, initial_controls, initial_state, rhs
+from .model import BOILED, ICE, ICE_GONE_KG, P, POT_AIR, SOLVENT, STATE, T, WATER, Rig, apply_entry, build_rig, initial_controls, initial_state, rhs
 from .results import usable_windows
 from .scenario import Scenario
 from .simulation import _ATOL, target_pressure
@@ -125,7 +125,7 @@ def _active_slots(rig: Rig) -> list[int]:
     """State slots that feed back into the dynamics (the energy tallies do not)."""
     slots = [P, T, ICE, WATER]
     if rig.distillation is not None:
-        slots += [SOLVENT, POT_AIR]
+        slots += [SOLVENT, POT_AIR, BOILED]
     return slots
 
 

@@ -13,6 +13,7 @@ State vector (SI), one named slot each (see STATE):
     solvent_tub_kg       distillate absorbed by the tub liquid       [kg]
     pot_air_mol          air still dissolved in the pot charge       [mol]
     vapor_heat_j         cumulative condensation heat of absorbed vapor [J]
+    boiled_kg            distillate boiled off the pot so far         [kg]
 
 Gas side (DESIGN sec. 2): V dp/dt = Q_leak + Q_degas + Q_slip - S_eff (p - p_floor), S_eff the
 ejector's total speed in series with the hose, p_floor the tub fluid's vapor pressure (water and
@@ -48,9 +49,10 @@ STATE = (
     "solvent_tub_kg",
     "pot_air_mol",
     "vapor_heat_j",
+    "boiled_kg",
 )
 IDX = {name: i for i, name in enumerate(STATE)}
-P, T, ICE, WATER, E_PUMP, E_ROOM, E_MELT, E_MELTWATER, SOLVENT, POT_AIR, E_VAPOR = range(len(STATE))
+P, T, ICE, WATER, E_PUMP, E_ROOM, E_MELT, E_MELTWATER, SOLVENT, POT_AIR, E_VAPOR, BOILED = range(len(STATE))
 
 # Ice below this mass counts as gone (the melt law's m^(2/3) is singular at zero).
 ICE_GONE_KG = 1e-6
@@ -96,6 +98,7 @@ class Distillation:
     pot_volume: float  # m^3
     degassing_rate: float  # 1/s
     pot_air_saturation: float  # mol/m^3 at the pot temperature, 1 atm air
+    charge_mass: float | None = None  # kg of distillate in the pot at the start (None: never runs dry)
 
     def exit_vapor_pressure(self, coolant_temperature: float | None) -> float:
         """Distillate vapor pressure of the gas leaving the condenser (and trap) [Pa]."""
@@ -314,6 +317,7 @@ def _build_distillation(s: Scenario, table: FluidTable, assumptions: list) -> Di
         pot_volume=pot_volume,
         degassing_rate=k_la,
         pot_air_saturation=saturation,
+        charge_mass=pot.charge if pot is not None else None,
     )
 
 
@@ -389,6 +393,7 @@ class Fluxes:
     solvent_partial_pressure_pa: object
     vapor_heat_w: object
     solvent_rate_kg_s: object
+    boil_up_kg_s: object
 
 
 def ejector_total_speed(rig: Rig, suction_pressure, motive_flow):
@@ -427,10 +432,13 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
     zero = temp * 0.0
     d = rig.distillation
     if d is None:
-        boil = slip = degas = p_solvent = vapor_heat = solvent_rate = zero
+        boil = slip = degas = p_solvent = vapor_heat = solvent_rate = boil_mass = zero
     else:
         boiling = 1.0 if d.pot_vapor_pressure is None else pot.boiling_fraction(p, d.pot_vapor_pressure)
-        boil = pot.boil_up_throughput(d.boil_up_mass_rate * boiling, d.molar_mass, d.gas_temperature)
+        if d.charge_mass is not None:
+            boiling = boiling * pot.remaining_fraction(y[BOILED], d.charge_mass)
+        boil_mass = d.boil_up_mass_rate * boiling
+        boil = pot.boil_up_throughput(boil_mass, d.molar_mass, d.gas_temperature)
         n_eq = d.pot_volume * d.pot_air_saturation * np.clip(p / rig.barometric_pressure, 0.0, 1.0)
         degas = pot.degassing_throughput(d.degassing_rate, y[POT_AIR], n_eq, d.gas_temperature)
         slip = condenser.slip_throughput(rig.leak_rate + np.maximum(degas, 0.0), p, controls.exit_vapor_pressure, boil)
@@ -476,6 +484,7 @@ def fluxes(rig: Rig, controls: Controls, y) -> Fluxes:
         solvent_partial_pressure_pa=p_solvent,
         vapor_heat_w=vapor_heat,
         solvent_rate_kg_s=solvent_rate,
+        boil_up_kg_s=boil_mass,
     )
 
 
@@ -497,4 +506,5 @@ def rhs(t: float, y: np.ndarray, rig: Rig, controls: Controls) -> np.ndarray:
     dy[SOLVENT] = f.solvent_rate_kg_s
     dy[POT_AIR] = -f.degassing_pa_m3_s / (c.GAS_CONSTANT * rig.distillation.gas_temperature) if rig.distillation is not None else 0.0
     dy[E_VAPOR] = f.vapor_heat_w
+    dy[BOILED] = f.boil_up_kg_s
     return dy

@@ -168,7 +168,9 @@ def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, ven
         "motive_flow_m3_s": float(start_fluxes.motive_flow_m3_s),
         "ejector_speed_m3_s": float(start_fluxes.ejector_speed_m3_s),
         "pump_heat_w": float(start_fluxes.pump_heat_w),
-        "shutoff_pressure_pa": max(float(rig.shutoff_pressure), 0.0) if np.isfinite(rig.shutoff_pressure) else None,
+        # the ejector's own cut-off (zero gas flow); None when it lies below zero (the fluid's
+        # vapor pressure, not the jet, limits) or with a measured curve
+        "jet_shutoff_pressure_pa": float(rig.shutoff_pressure) if np.isfinite(rig.shutoff_pressure) and rig.shutoff_pressure > 0 else None,
         "ua_w_k": rig.ua,
         "ice_initial_kg": float(series["ice_mass_kg"][0]),
         "ice_gone_s": ice_gone_s,
@@ -179,7 +181,7 @@ def summarise(*, scenario, rig, time, series, target, crossings, pump_stops, ven
         "distillate": rig.distillation.compound if rig.distillation is not None else None,
         "solvent_in_tub_kg": float(series["solvent_tub_kg"][-1]),
         "solvent_floor_pa": float(series["solvent_partial_pressure_pa"][-1]),
-        "warnings": [asdict(w) for w in warnings],
+        "warnings": [asdict(w) for w in sorted(warnings, key=lambda w: -1.0 if w.time_s is None else w.time_s)],
         "assumptions": [asdict(a) for a in rig.assumptions],
     }
 

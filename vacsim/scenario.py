@@ -213,6 +213,7 @@ class Pot(_Section):
     temperature: Temperature | None = None
     heat_input: Power | None = None
     boil_up_rate: Annotated[float, _quantity("mass flow"), Field(ge=0)] | None = None
+    charge: Annotated[Mass, Field(gt=0)] | None = None
     degassing_rate: RateConstant | None = None
     air_saturated: bool = True
 
@@ -455,7 +456,7 @@ def build_scenario(raw: dict, source: str = "scenario") -> Scenario:
 
 def _check_physics(s: Scenario, source: str) -> None:
     """Cross-field checks that need the property library."""
-    from .properties import fluid
+    from .properties import fluid, solvents
 
     t_freeze = float(fluid.freezing_point(s.tub.glycol, s.tub.glycol_mass_fraction))
     t0 = s.initial_tub_temperature
@@ -482,8 +483,6 @@ def _check_physics(s: Scenario, source: str) -> None:
             )
     if s.initial_pressure > s.barometric_pressure * 1.2:
         raise InputError(f"{source}: apparatus.initial_pressure: above barometric; vacsim models evacuation only")
-    from .properties import solvents
-
     for where, name in (
         ("target.compound", s.target.compound if s.target else None),
         ("pot.compound", s.pot.compound if s.pot else None),
@@ -494,6 +493,20 @@ def _check_physics(s: Scenario, source: str) -> None:
                 solvents.get_compound(name)
             except InputError as exc:
                 raise InputError(f"{source}: {where}: {exc}") from None
+    distillate = s.distillate
+    if distillate is not None:
+        comp = solvents.get_compound(distillate)
+        corr = comp.vapor_pressure
+        for where, temp in (
+            ("pot.temperature", s.pot.temperature if s.pot else None),
+            ("condenser.coolant_temperature", s.condenser.coolant_temperature if s.condenser else None),
+            ("trap.temperature", s.trap.temperature if s.trap else None),
+        ):
+            if temp is not None and not corr.t_min - 60.0 <= temp < corr.t_max:
+                raise InputError(
+                    f"{source}: {where}: {temp - c.ZERO_CELSIUS:.1f} degC is outside what the vapor-pressure data of {comp.name} "
+                    f"cover ({corr.t_min - c.ZERO_CELSIUS:.0f} to {corr.t_max - c.ZERO_CELSIUS:.0f} degC, the top is its critical point)"
+                )
 
 
 def load_scenario(path: str | Path, overrides: list[str] | tuple[str, ...] = ()) -> Scenario:

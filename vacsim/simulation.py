@@ -18,7 +18,7 @@ from .scenario import Scenario
 # Stiff methods only: the gas side relaxes in seconds, the tub over hours.
 METHODS = ("LSODA", "BDF", "Radau")
 # Absolute tolerances per state slot, in its SI unit.
-_ATOL = np.array([1e-4, 1e-7, 1e-8, 1e-8, 1e-2, 1e-2, 1e-2, 1e-2, 1e-10, 1e-10, 1e-2])
+_ATOL = np.array([1e-4, 1e-7, 1e-8, 1e-8, 1e-2, 1e-2, 1e-2, 1e-2, 1e-10, 1e-10, 1e-2, 1e-9])
 
 
 @dataclass
@@ -110,7 +110,7 @@ def simulate(
     target = target_pressure(s)
     duration = s.run.duration
     rtol = s.run.relative_tolerance if rtol is None else rtol
-    atol = _ATOL * np.array([1.0, 1.0, max(s.tub.ice, 1e-3), max(y[3], 1e-3), 1, 1, 1, 1, 1, 1, 1])
+    atol = _ATOL * np.array([1.0, 1.0, max(s.tub.ice, 1e-3), max(y[3], 1e-3), 1, 1, 1, 1, 1, 1, 1, 1])
     max_step = max_step if max_step is not None else 30.0 * s.run.output_interval
     grid = np.unique(np.append(np.arange(0.0, duration, s.run.output_interval), duration))
 
@@ -226,6 +226,9 @@ def _quiet_ranges():
 # NFPA 69 (Standard on Explosion Prevention Systems) keeps combustible concentrations at or
 # below 25 % of the LFL (from memory).
 LFL_FRACTION = 0.25
+# A compound target overshot by more than this (boiling temperature below the one asked for)
+# is flagged: the pot then boils much harder than planned (common practice).
+FAR_BELOW_TARGET_K = 15.0
 
 
 def _first(mask, time):
@@ -240,7 +243,7 @@ def _distillation_warnings(s: Scenario, rig: Rig, time, series, warnings: list) 
     d = rig.distillation
     comp = solvents.get_compound(d.compound)
     p = series["pressure_pa"]
-    boiling = series["boil_up_pa_m3_s"] > 1e-3 * max(float(series["boil_up_pa_m3_s"].max()), 1e-30)
+    boiling = series["boil_up_pa_m3_s"] > 0.05 * max(float(series["boil_up_pa_m3_s"].max()), 1e-30)  # boiling in earnest
     if d.boil_up_mass_rate > 0 and not d.has_condenser and s.trap is None:
         warnings.append(Warning_("no_condenser", f"the pot boils {d.compound} up with no condenser or trap: all of it goes to the pump and the tub.", 0.0))
     # Overloaded: the pressure is at the distillate's vapor pressure at the coolant, or half the
@@ -271,6 +274,47 @@ def _distillation_warnings(s: Scenario, rig: Rig, time, series, warnings: list) 
                 t_fail,
             )
         )
+    if d.charge_mass is not None:
+        t_dry = _first(series["boiled_kg"] >= 0.99 * d.charge_mass, time)
+        if t_dry is not None:
+            warnings.append(
+                Warning_(
+                    "pot_dry",
+                    f"the pot has boiled dry at {t_dry / 60:.0f} min ({d.charge_mass * 1e3:.0f} g of {d.compound} charged): "
+                    "stop heating before that; never distil to dryness (residues, peroxides from ethers).",
+                    t_dry,
+                )
+            )
+    if d.has_condenser and s.trap is not None and s.condenser is not None:
+        bypass = boiling & (p <= np.array([float(solvents.vapor_pressure(comp, s.condenser.coolant_temperature))]) * 1.001)
+        t_bypass = _first(bypass, time)
+        if t_bypass is not None:
+            warnings.append(
+                Warning_(
+                    "condenser_bypassed",
+                    f"from {t_bypass / 60:.0f} min the {s.condenser.coolant_temperature - c.ZERO_CELSIUS:.0f} °C condenser cannot condense "
+                    f"{d.compound}: the cold trap collects the distillate. Watch it: empty it before it fills or plugs.",
+                    t_bypass,
+                )
+            )
+    if s.target is not None and s.target.compound is not None and "target_boiling_temperature_k" in series:
+        asked = s.target.boiling_temperature if s.target.boiling_temperature is not None else s.target.pot_temperature
+        pumping = series["pump_on"] > 0
+        if d.boil_up_mass_rate > 0:
+            pumping = pumping & boiling  # while the pot boils: that is when overshooting matters
+        coldest = float(np.nanmin(series["target_boiling_temperature_k"][pumping])) if pumping.any() else asked
+        if coldest < asked - FAR_BELOW_TARGET_K:
+            t_far = _first(pumping & (series["target_boiling_temperature_k"] < asked - FAR_BELOW_TARGET_K), time)
+            warnings.append(
+                Warning_(
+                    "far_below_target",
+                    f"the rig pulls the boiling pot down to {float(np.min(p[pumping])) / 100:.0f} mbar, where {s.target.compound} boils at "
+                    f"{coldest - c.ZERO_CELSIUS:.0f} °C, {asked - coldest:.0f} K below the {asked - c.ZERO_CELSIUS:.0f} °C asked for: "
+                    "the pot boils harder and may bump or foam over, and the condenser must take colder vapor. "
+                    "Hold the pressure near the target with a bleed valve or a vacuum regulator.",
+                    t_far,
+                )
+            )
     solvent = series["solvent_tub_kg"]
     if d.solubility_mass_fraction is not None:
         t_sep = _first(solvent > d.solubility_mass_fraction * series["water_mass_kg"], time)
@@ -331,7 +375,11 @@ def _capacity_warning(s: Scenario, rig: Rig, warnings: list) -> None:
     for e in sorted(s.schedule, key=lambda e: e.at):
         ice_kg += e.add_ice or 0.0  # upper bound: no melting between additions
     volume = s.tub.liquid_volume + ice_kg / rig.ice_density
-    if volume > s.tub.capacity:
+    if s.tub.liquid_volume > s.tub.capacity:
+        warnings.append(
+            Warning_("ice_overflow", f"{s.tub.liquid_volume * 1e3:.1f} L of liquid do not fit in the tub's {s.tub.capacity * 1e3:.1f} L (tub.capacity).", 0.0)
+        )
+    elif volume > s.tub.capacity:
         warnings.append(
             Warning_(
                 "ice_overflow",

@@ -29,10 +29,19 @@ def test_warm_coolant_floor_creeps_up(warm):
     assert np.all(np.diff(warm.series["solvent_tub_kg"]) >= -1e-12)
     assert warm.summary["solvent_in_tub_kg"] > 0.05
     codes = [w["code"] for w in warm.summary["warnings"]]
-    assert "condenser_cannot_condense" in codes and "flammable_headspace" in codes
-    # the pressure is held up near acetone's vapor pressure at the 20 degC coolant
+    assert {"condenser_cannot_condense", "flammable_headspace", "pot_dry"} <= set(codes)
+    # while the pot boils the pressure is held up near acetone's vapor pressure at the 20 degC coolant
     p_cool = solvents.vapor_pressure("acetone", c.ZERO_CELSIUS + 20.0)
-    assert warm.summary["min_pressure_pa"] == pytest.approx(p_cool, rel=0.03)
+    assert warm.at("pressure_pa", 3600.0) == pytest.approx(p_cool, rel=0.03)
+
+
+def test_pot_runs_dry(warm):
+    # 395 g charged, 3 g/min boiled up: dry after about 132 min, then the boil-up stops
+    boiled = warm.series["boiled_kg"]
+    assert boiled[-1] == pytest.approx(0.395, rel=0.01)
+    dry = next(w for w in warm.summary["warnings"] if w["code"] == "pot_dry")
+    assert dry["time_s"] == pytest.approx(395 / 3 * 60, rel=0.03)
+    assert warm.at("boil_up_pa_m3_s", 170 * 60.0) < 1e-3 * warm.at("boil_up_pa_m3_s", 600.0)
 
 
 @pytest.mark.parametrize("override", [[], ["condenser.coolant_temperature=-40 degC"]])

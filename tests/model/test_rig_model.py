@@ -26,7 +26,7 @@ def _constant_speed_scenario():
     raw["run"].update(duration="120 s", output_interval="0.5 s", relative_tolerance=1e-9, ambient_temperature="20 degC")
     raw["apparatus"].update(volume="2 L", leak_rate="0 mbar*L/s", initial_pressure="1013.25 mbar")
     raw["hose"].update(inner_diameter="50 cm", length="1 cm")  # conductance ~1e7 L/s: no hose
-    raw["tub"].update(liquid_volume="1000000 L", initial_temperature="20 degC", ua="0.001 W/K")
+    raw["tub"].update(liquid_volume="1000000 L", initial_temperature="20 degC", ua="0.001 W/K", capacity="1000001 L")
     raw["ejector"].update(motive_degassing=0.0)
     return build_scenario(raw, "constant-speed")
 
@@ -275,3 +275,5 @@ def test_start_figures_follow_entries_at_time_zero():
 def test_ice_overflow_warning():
     r = simulate(load_scenario(SCENARIOS / "bench-iced.toml", ["tub.ice=5 kg"]))
     assert "ice_overflow" in [w["code"] for w in r.summary["warnings"]]
+    r = simulate(load_scenario(SCENARIOS / "bench-iced.toml", ["tub.capacity=5 L"]))
+    assert "do not fit" in next(w["message"] for w in r.summary["warnings"] if w["code"] == "ice_overflow")

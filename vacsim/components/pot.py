@@ -53,6 +53,30 @@ def boiling_fraction(pressure, pot_vapor_pressure, width=BOILING_ONSET_WIDTH):
     return x * x * (3.0 - 2.0 * x)
 
 
+DRY_WIDTH = 0.01  # share of the charge over which boiling dies away as the pot runs dry
+
+
+def remaining_fraction(boiled, charge, width=DRY_WIDTH):
+    """1 while the pot holds liquid, falling smoothly to 0 as the boiled mass reaches the charge.
+
+    Parameters
+    ----------
+    boiled : float or ndarray
+        Mass boiled off so far [kg].
+    charge : float
+        Mass charged [kg].
+    width : float
+        Relative width of the run-out [-].
+
+    Returns
+    -------
+    float or ndarray
+        [-], 0..1.
+    """
+    x = np.clip((charge - np.asarray(boiled, dtype=float)) / (width * charge), 0.0, 1.0)
+    return x * x * (3.0 - 2.0 * x)
+
+
 def degassing_throughput(rate_constant, dissolved_amount, equilibrium_amount, gas_temperature):
     """Air released by a liquid holding more than its equilibrium amount.
 

@@ -37,6 +37,7 @@ def hermite(x, grid, values, slopes):
     """
     h = grid[1] - grid[0]
     pos = np.clip((np.asarray(x, dtype=float) - grid[0]) / h, 0.0, grid.size - 1.000001)
+    pos = np.where(np.isfinite(pos), pos, 0.0)  # NaN in, a finite (edge) value out: callers validate inputs
     i = pos.astype(int)
     u = pos - i
     u2 = u * u
