@@ -404,8 +404,8 @@ def _feed_warnings(s: Scenario, rig: Rig, target: float | None, ultimate0: float
         warnings.append(
             Warning_(
                 "below_working_head",
-                f"feed pump gives {rise / 1e5:.2f} bar at the nozzle; the ejector needs about {needed / 1e5:.2f} bar "
-                f"({needed / c.PSI:.0f} psi) to reach {what}. The jet shuts off at {rig.shutoff_pressure / 100:.0f} mbar.",
+                f"the feed pump gives a {rise / 1e5:.2f} bar pressure rise (gauge) at the nozzle; the ejector needs about "
+                f"{needed / 1e5:.2f} bar ({needed / c.PSI:.0f} psi) to reach {what}. The jet shuts off at {rig.shutoff_pressure / 100:.0f} mbar.",
                 0.0,
             )
         )
