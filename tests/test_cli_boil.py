@@ -71,6 +71,18 @@ BAD_INPUTS = {
     "length unit": (["boil", "water", "--at", "2 m"], "expected a pressure"),
     "neither option": (["boil", "water"], "exactly one of --at"),
     "both options": (["boil", "water", "--at", "20 mbar", "--observed", "20 degC"], "exactly one of --at"),
+    # IAPWS R14-08(2011): water's triple point is at 611.657 Pa = 6.12 mbar = 4.59 Torr (1 Torr = 101325/760 Pa);
+    # below it ice sublimes, there is no boiling
+    "below triple point": (["boil", "water", "--at", "0.5 mbar"], "below its triple-point pressure, 6.12 mbar"),
+    "below triple point, torr": (
+        ["boil", "water", "--at", "0.5 mbar", "--units", "torr"], "below its triple-point pressure, 4.59 Torr"
+    ),
+    "ice, observed": (["boil", "water", "--observed", "-5 degC"], "below its triple point, 0.01 °C"),
+    # IAPWS R6-95: critical point 647.096 K (373.9 degC), 22.064 MPa (220640 mbar); no boiling above it
+    "above critical temperature": (["boil", "water", "--observed", "500 degC"], "above its critical temperature, 373.9 °C"),
+    "above critical pressure": (["boil", "water", "--at", "300 bar"], "above its critical pressure, 220640 mbar"),
+    # ethanol: Tc 513.92 K = 240.8 degC in its Wagner row (Poling et al. 2001 App. A): refused the same way
+    "ethanol above Tc": (["boil", "ethanol", "--observed", "300 degC"], "above its critical temperature, 240.8 °C"),
 }
 
 
@@ -92,3 +104,33 @@ def test_bad_input_is_one_line_and_exit_code_2():
         lines = [line for line in err.splitlines() if line.strip()]
         assert len(lines) == 1, (case, err)
         assert lines[0].startswith("vacsim: error:") and expected in lines[0], (case, err)
+
+
+def test_water_at_the_ice_point_is_still_liquid():
+    # 0 degC is 0.01 K below the triple point (ITS-90); p_sat(273.15 K) = 611.2 Pa
+    # [lib: iapws IF97 region 4, _PSat_T]
+    iapws97 = pytest.importorskip("iapws.iapws97")
+    out = _json(["water", "--observed", "0 degC"])
+    assert out["pressure_pa"] == pytest.approx(iapws97._PSat_T(273.15) * 1e6, rel=1e-4)
+
+
+def test_below_the_melting_point_is_flagged_in_the_table():
+    # glycerol's VDI correlation starts at its melting point, 291.45 K (CRC Handbook: 291.3 K);
+    # at 1e-5 mbar its boiling point is below it: flagged in the table in degC, not as a note in K
+    reset_warnings()
+    result = runner.invoke(app, ["boil", "glycerin", "--at", "0.00001 mbar"])
+    assert result.exit_code == 0, result.output
+    assert "Caution" in result.stdout and "frozen" in result.stdout and "extrapolated" in result.stdout
+    assert "18.3 °C" in result.stdout  # 291.45 K - 273.15
+    assert "1e-05 mbar" in result.stdout  # not rounded to 0.00 mbar
+    assert "291.45..850.05 K" not in result.output
+    out = _json(["glycerin", "--at", "0.00001 mbar"])
+    assert any("frozen" in w for w in out["warnings"])
+
+
+def test_outside_an_antoine_range_is_flagged_as_extrapolated():
+    # pyridine's Antoine row holds 292.51..413.57 K (Poling et al. 2001 App. A); 5 mbar lies below it
+    reset_warnings()
+    result = runner.invoke(app, ["boil", "pyridine", "--at", "5 mbar"])
+    assert result.exit_code == 0, result.output
+    assert "Caution" in result.stdout and "fitted range" in result.stdout and "extrapolated" in result.stdout

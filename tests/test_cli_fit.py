@@ -100,3 +100,12 @@ def test_fit_table_in_torr(short_log, tmp_path):
     assert res.exit_code == 0, res.output
     assert "fitted parameters" in res.output and "ejector.entrainment_ratio" in res.output
     assert "simulations" in res.output and "tub.initial_temperature" in res.output
+
+
+def test_zero_within_its_error_prints_as_zero():
+    from vacsim.cli.fit_cmd import _pm
+
+    # round-off noise far below the standard error is no digit worth printing (issue: "-5.84e-17 ± 0.011")
+    assert _pm(-5.84e-17, 0.011) == "0 ± 0.011"
+    assert _pm(0.0123, 0.011) == "0.0123 ± 0.011"
+    assert _pm(1.5, float("inf")) == "1.5 ± ?"

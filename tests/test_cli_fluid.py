@@ -61,7 +61,7 @@ def test_below_freezing_point_is_input_error():
     )
     assert isinstance(result.exception, InputError)
     assert str(result.exception) == (
-        "--at: -20 degC is below the freezing point of 30 % ethylene glycol (-14.6 degC)"
+        "--at: -20 degC is below the freezing point of 30 wt% ethylene glycol (-14.6 degC)"
     )
 
 

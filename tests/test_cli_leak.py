@@ -94,7 +94,7 @@ def test_table_output_and_default_plot_folder(tmp_path, monkeypatch):
     monkeypatch.chdir(tmp_path)
     res = CliRunner().invoke(app, ["leak", str(DEMO), "--volume", "2500 mL"])
     assert res.exit_code == 0, res.output
-    assert "mbar L/s" in res.output and "±" in res.output and "min" in res.output
+    assert "mbar·L/s" in res.output and "±" in res.output and "min" in res.output
     assert (tmp_path / "results" / "leak-leak-test-demo" / "leak.png").is_file()
     leftovers = [p for p in (tmp_path / "results" / "leak-leak-test-demo").iterdir() if p.name != "leak.png"]
     assert leftovers == []  # the atomic write left no temp file
@@ -143,3 +143,27 @@ def test_plot_artists():
     x, y = ax.get_lines()[2].get_data()
     slope_mbar_per_min = (y[-1] - y[0]) / (x[-1] - x[0])
     assert slope_mbar_per_min == pytest.approx(result.slope_pa_s * 60 / 100, rel=1e-9)
+
+
+def test_zero_within_its_error_prints_as_zero():
+    from vacsim.cli.leak_cmd import _pm
+
+    # round-off noise far below the standard error is no digit worth printing (issue: "-5.84e-17 ± 0.011")
+    assert _pm(-5.84e-17, 0.011) == "0 ± 0.011"
+    assert _pm(2e-9, 0.011) == "0 ± 0.011"  # below 1e-6 of the standard error
+    assert _pm(0.0003, 0.011) == "0.0003 ± 0.011"  # small but not noise: kept
+    assert _pm(0.0864, float("nan")) == "0.0864"
+    assert _pm(float("nan"), 0.01) == "-"
+
+
+def test_leak_warning_in_the_table_unit(tmp_path):
+    # a flat log: the leak is not resolved, and its bound is quoted in Torr·L/s beside a Torr table
+    log = tmp_path / "flat.csv"
+    t = np.arange(0, 1801, 30.0)
+    p = 2000.0 + 0.02 * t + np.random.default_rng(1).normal(0.0, 100.0, t.size)  # invented: a rise lost in the noise
+    log.write_text("time_s,pressure_mbar\n" + "\n".join(f"{ti:g},{pi / 100:.3f}" for ti, pi in zip(t, p)) + "\n")
+    res = CliRunner().invoke(app, ["leak", str(log), "--volume", "3 L", "--units", "torr", "--out", str(tmp_path / "o")])
+    assert res.exit_code == 0, res.output
+    text = " ".join(res.output.split())
+    assert "leak_not_resolved" in text and "Torr·L/s" in text.split("leak_not_resolved")[1]
+    assert "Pa m^3/s" not in text

@@ -230,6 +230,42 @@ def format_pressure(value_pa: float | None, unit: str = "mbar") -> str:
     return f"{v:.2f} {label}"
 
 
+def format_pressure_sig(value_pa: float, unit: str = "mbar", digits: int = 3) -> str:
+    """A pressure [Pa] as display text with `digits` significant figures (for notes and small values)."""
+    return f"{pressure_in(value_pa, unit):.{digits}g} {PRESSURE_LABELS[unit.lower()]}"
+
+
+def throughput_label(unit: str = "mbar") -> str:
+    """The display unit of a throughput for a pressure display unit: 'mbar·L/s', 'Torr·L/s'..."""
+    return f"{PRESSURE_LABELS[unit.lower()]}·L/s"
+
+
+def format_throughput(value_pa_m3_s: float, unit: str = "mbar", digits: int = 3) -> str:
+    """A throughput [Pa m^3/s] as display text in <unit>·L/s with `digits` significant figures."""
+    return f"{throughput_in(value_pa_m3_s, unit):.{digits}g} {throughput_label(unit)}"
+
+
+#: a value smaller than this share of its standard error is shown as 0 (it is zero within its error,
+#: and its printed digits would be round-off noise such as -5.84e-17)
+ZERO_WITHIN_ERROR = 1.0e-6
+
+
+def format_plus_minus(value: float, stderr: float, digits: str = ".3g", stderr_digits: str = ".2g", unknown: str = "") -> str:
+    """'value ± stderr' display text (numbers already in display units).
+
+    A value smaller than :data:`ZERO_WITHIN_ERROR` times its standard error prints as 0; a
+    non-finite value as '-'; a non-finite standard error as the value alone, followed by
+    `unknown` (e.g. ' ± ?') when given.
+    """
+    if not math.isfinite(value):
+        return "-"
+    if not math.isfinite(stderr):
+        return f"{value:{digits}}{unknown}"
+    if abs(value) < ZERO_WITHIN_ERROR * abs(stderr):
+        value = 0.0
+    return f"{value:{digits}} ± {stderr:{stderr_digits}}"
+
+
 def format_temperature(value_k: float | None) -> str:
     """A temperature [K] as degC text."""
     return "-" if value_k is None else f"{value_k - c.ZERO_CELSIUS:.1f} °C"

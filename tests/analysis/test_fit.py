@@ -219,3 +219,19 @@ def test_log_events_become_the_runs_schedule(tmp_path):
 def test_unknown_free_key_lists_valid_ones():
     with pytest.raises(InputError, match="valid keys: ejector.entrainment_ratio"):
         F.free_parameter("ejector.entrainment")
+
+
+def test_warning_texts_follow_the_display_units():
+    # 0.02 Pa m^3/s = 0.2 mbar L/s = 0.15 Torr L/s (1 mbar = 100 Pa; 1 Torr = 101325/760 Pa; 1 L = 1e-3 m^3)
+    values = {"apparatus.leak_rate": 0.01, "tub.ua": 4.0}
+    stderr = {"apparatus.leak_rate": 0.02, "tub.ua": 8.0}
+    corr = np.eye(2)
+    mbar = F._identifiability(list(values), values, stderr, corr)
+    assert "standard error 0.2 mbar·L/s is larger than the value 0.1 mbar·L/s" in mbar[0]["message"]
+    assert "standard error 8 W/K is larger than the value 4 W/K" in mbar[1]["message"]
+    torr = F._identifiability(list(values), values, stderr, corr, "torr")
+    assert "standard error 0.15 Torr·L/s" in torr[0]["message"]
+    p = F.free_parameter("tub.initial_temperature")
+    assert p.display_text(293.15) == "20 °C" and p.display_text(0.5, difference=True) == "0.5 K"
+    cut = F.free_parameter("ejector.cutoff_width")
+    assert cut.display_text(500.0, "torr") == f"{500.0 / (101325.0 / 760.0):.3g} Torr"

@@ -164,3 +164,23 @@ def test_demo_log_round_trip():
     assert res.leak_rate_pa_m3_s == pytest.approx(0.030 * MBAR_L_S, rel=0.05)
     assert res.vapor_rise_pa == pytest.approx(600.0, rel=0.3)
     assert res.time_constant_s == pytest.approx(240.0, rel=0.5)
+
+
+def test_warnings_speak_the_display_units():
+    # a flat log with noise: the leak is not resolved; its upper bound is quoted in the table's unit,
+    # <unit>·L/s (1 Pa m^3/s = 10 mbar L/s = 7.50062 Torr L/s, from 1 mbar = 100 Pa, 1 Torr = 101325/760 Pa)
+    rng = np.random.default_rng(4)
+    p = 2000.0 + rng.normal(0.0, 1.0, T.size) * 100.0
+    p[60] += 3000.0  # an outlier, quoted as a pressure in the display unit
+    res = fit_rate_of_rise(T, p, V)
+    msg = next(w["message"] for w in res.warnings if w["code"] == "leak_not_resolved")
+    bound = (res.slope_pa_s + 2.0 * float(res.leak_rate_stderr_pa_m3_s) / V) * V  # Pa m^3/s
+    assert f"{bound * 10.0:.3g} mbar·L/s" in msg and "Pa m^3/s" not in msg
+    outlier = next(w["message"] for w in res.warnings if w["code"] == "outlier")
+    assert f"{p[60] / 100.0:.4g} mbar" in outlier
+    torr = fit_rate_of_rise(T, p, V, units="torr")
+    msg = next(w["message"] for w in torr.warnings if w["code"] == "leak_not_resolved")
+    assert f"{bound / (101325.0 / 760.0) / 1e-3:.3g} Torr·L/s" in msg
+    assert torr.leak_rate_pa_m3_s == res.leak_rate_pa_m3_s  # the numbers stay SI
+    with pytest.raises(InputError, match="display unit"):
+        fit_rate_of_rise(T, p, V, units="hPa")

@@ -119,4 +119,4 @@ def test_check_fluid_where_prefix_and_unknown_in_property():
 
 def test_describe():
     assert fluid.describe("none", 0.0) == "water"
-    assert fluid.describe("ethylene", 0.3) == "30 % ethylene glycol"
+    assert fluid.describe("ethylene", 0.3) == "30 wt% ethylene glycol"

@@ -412,3 +412,49 @@ def test_flammability_limits_match_nfpa_and_iec_tables():
         checked += 1
     assert checked >= 20
     assert s.get_compound("chloroform").lower_flammability_limit is None  # not flammable
+
+
+# ---- liquid range (boiling only between the triple and the critical point) -----------------
+
+
+def test_water_liquid_range_is_the_iapws_triple_and_critical_points():
+    r = s.liquid_range("water")
+    assert r.exact
+    # IAPWS R14-08(2011): triple point 273.16 K, 611.657 Pa
+    assert r.triple_temperature == 273.16 and r.triple_pressure == pytest.approx(611.657, abs=1e-9)
+    # IAPWS R6-95: critical point 647.096 K, 22.064 MPa
+    assert r.critical_temperature == 647.096 and r.critical_pressure == pytest.approx(22.064e6)
+    # the IAPWS saturation curve meets that triple-point pressure to 0.01 % (Wagner & Pruss 1993)
+    assert float(s.vapor_pressure("water", 273.16)) == pytest.approx(r.triple_pressure, rel=1e-4)
+
+
+def test_antoine_rows_have_no_liquid_range():
+    # an Antoine fit's range is a fitted interval, not the triple..critical range (Poling et al. 2001 App. A)
+    assert s.liquid_range("pyridine") is None
+    assert s.liquid_range("NMP") is None  # Landolt-Boernstein IV/20 Antoine row
+
+
+# Tc where the compilations disagree with the correlation's own Tc by far more than their
+# uncertainty: DMSO 729 K (Perry's Table 2-8) against 707 K in the CRC Handbook critical-constant table
+_TC_DISPUTED = {"dimethyl sulfoxide"}
+
+
+@pytest.mark.parametrize(
+    "name", [n for n in s.compound_names() if s.get_compound(n).vapor_pressure.kind in s.LIQUID_RANGE_FORMS and n != "water"]
+)
+def test_stated_range_runs_from_the_melting_point_to_tc(name):
+    chem = pytest.importorskip("chemicals")
+    comp = s.get_compound(name)
+    r = s.liquid_range(comp)
+    assert r is not None and not r.exact
+    # melting points: CRC Handbook, Physical Constants of Organic Compounds (chemicals, method CRC_ORG);
+    # 3 K covers triple point vs melting point and the sources' rounding
+    assert r.triple_temperature == pytest.approx(chem.Tm(comp.cas, method="CRC_ORG"), abs=3.0)
+    if name not in _TC_DISPUTED:
+        # critical temperatures: IUPAC critical-constant reviews (Ambrose et al.) or the CRC Handbook
+        # critical-constants table (chemicals, methods IUPAC and CRC); 2.5 K = their scatter
+        refs = [chem.Tc(comp.cas, method=m) for m in ("IUPAC", "CRC") if m in chem.critical.Tc_methods(comp.cas)]
+        assert min(abs(r.critical_temperature - ref) for ref in refs) <= 2.5
+    # the pressures at the ends are the correlation's own
+    assert r.triple_pressure == pytest.approx(float(s.vapor_pressure(comp, r.triple_temperature)), rel=1e-12)
+    assert r.critical_pressure > 1e6  # Pa; every compound here has pc between 2 and 9 MPa (Poling et al. 2001 App. A)

@@ -113,6 +113,28 @@ class FreeParameter:
     def display(self, value: float) -> float:
         return value * self.display_factor + self.display_offset
 
+    def display_scale(self, units: str = "mbar") -> tuple[float, float, str]:
+        """(factor, offset, label) of the display for a pressure display unit (--units).
+
+        Pressures follow `units`, throughputs `units`·L/s; other quantities keep their own
+        display unit (°C, W/K, L...).
+        """
+        from ..units import PRESSURE_LABELS, pressure_in, throughput_in, throughput_label
+
+        if self.unit == "Pa*m^3/s":
+            return throughput_in(1.0, units), 0.0, throughput_label(units)
+        if self.unit == "Pa":
+            return pressure_in(1.0, units), 0.0, PRESSURE_LABELS[units.lower()]
+        return self.display_factor, self.display_offset, self.display_unit
+
+    def display_text(self, value: float, units: str = "mbar", *, difference: bool = False) -> str:
+        """A value [SI] (or, with `difference`, a standard error) as display text with its unit."""
+        factor, offset, label = self.display_scale(units)
+        if difference and label == "°C":
+            label = "K"
+        shown = value * factor + (0.0 if difference else offset)
+        return f"{shown:.3g} {label}".rstrip()
+
     def text(self, value: float) -> Any:
         """The value as a scenario file holds it (a number, or a string with its SI unit)."""
         return float(value) if self.unit is None else f"{value:.12g} {self.unit}"
@@ -127,7 +149,7 @@ FITTABLE: dict[str, FreeParameter] = {
     for p in (
         FreeParameter("ejector.entrainment_ratio", None, True, 1e-3, 5.0, 1.0, ""),
         # typical whole-rig leak with greased joints 1e-4..1e-2 mbar L/s (DESIGN sec. 2, from memory)
-        FreeParameter("apparatus.leak_rate", "Pa*m^3/s", True, 1e-9, 10.0, 1e-4, "mbar L/s", _MBAR_L_PER_PA_M3),
+        FreeParameter("apparatus.leak_rate", "Pa*m^3/s", True, 1e-9, 10.0, 1e-4, "mbar·L/s", _MBAR_L_PER_PA_M3),
         # a plastic tub of 10 L in still air: a few W/K (common practice)
         FreeParameter("tub.ua", "W/K", True, 1e-3, 1e3, 3.0, "W/K"),
         FreeParameter("ejector.motive_degassing", None, True, 1e-6, 1.0, 0.05, ""),
@@ -634,15 +656,17 @@ _KEY_HINTS = {
 }
 
 
-def _identifiability(keys, values, stderr, corr) -> list[dict]:
+def _identifiability(keys, values, stderr, corr, units: str = "mbar") -> list[dict]:
     out = []
     for k in keys:
         se, v = stderr[k], values[k]
+        p = FITTABLE[k]
         if not math.isfinite(se):
             out.append({"code": "not_identifiable", "message": f"{k}: the log does not determine it (no standard error); fix it or log more of the run", "time_s": None, "key": k})
-        elif se > abs(v) and FITTABLE[k].log_scale:
+        elif se > abs(v) and p.log_scale:
             hint = _KEY_HINTS.get(k, "fix it (leave it out of --free) or log more of the run")
-            out.append({"code": "not_identifiable", "message": f"{k}: standard error {se:.3g} is larger than the value {v:.3g}: the log does not determine it; {hint}", "time_s": None, "key": k})
+            se_text, v_text = p.display_text(se, units, difference=True), p.display_text(v, units)
+            out.append({"code": "not_identifiable", "message": f"{k}: standard error {se_text} is larger than the value {v_text}: the log does not determine it; {hint}", "time_s": None, "key": k})
     for i, a in enumerate(keys):
         for j in range(i + 1, len(keys)):
             b = keys[j]
@@ -665,6 +689,7 @@ def fit_scenario(
     temperature_sigma: float = TEMPERATURE_SIGMA,
     sigma=pressure_sigma,
     fit_initial_temperature: bool = True,
+    units: str = "mbar",
 ) -> FitResult:
     """Fit free scenario parameters to a logged run.
 
@@ -693,6 +718,10 @@ def fit_scenario(
     fit_initial_temperature : bool
         Fit the run's initial tub temperature alongside when the log has tub readings (see
         nuisance_keys); its standard error then enters the others'.
+    units : str
+        Pressure display unit of the warning and note texts (mbar, torr, pa, inhg, psi):
+        pressures in it, throughputs in it times L/s, temperatures in °C, as the table printed
+        beside them. Values and standard errors stay SI.
 
     Returns
     -------
@@ -707,6 +736,11 @@ def fit_scenario(
         raise InputError("--free: name at least one key to fit")
     for k in keys:
         free_parameter(k)
+    from ..units import PRESSURE_UNITS
+
+    if units.lower() not in PRESSURE_UNITS:
+        raise InputError(f"units: unknown pressure display unit {units!r}; expected one of {', '.join(PRESSURE_UNITS)}")
+    units = units.lower()
     obs = observations_from_log(log, compound, temperature_sigma=temperature_sigma, sigma=sigma)
     raw, notes = prepare_run(scenario, obs, list(log.events), keys)
     extra = nuisance_keys(scenario, obs, keys) if fit_initial_temperature else ()
@@ -730,7 +764,7 @@ def fit_scenario(
         if p.key.startswith("pot.") and scenario.pot is None:
             raise InputError(f"--free {p.key}: the scenario has no [pot] section")
         if value is None or (p.log_scale and value <= 0):
-            notes.append(f"{p.key}: the scenario gives none; start from {p.display(p.typical):.3g} {p.display_unit}".rstrip())
+            notes.append(f"{p.key}: the scenario gives none; start from {p.display_text(p.typical, units)}")
             value = p.typical
         start[p.key] = float(min(max(value, p.lower), p.upper))
 
@@ -757,10 +791,10 @@ def fit_scenario(
         se_x = math.sqrt(cov[j, j]) if np.isfinite(cov[j, j]) else math.inf
         stderr[p.key] = values[p.key] * se_x if p.log_scale else se_x
 
-    warnings = _identifiability(keys, values, stderr, corr[:n_free, :n_free])
+    warnings = _identifiability(keys, values, stderr, corr[:n_free, :n_free], units)
     for j, p in enumerate(params):
         if x[j] <= lo[j] + 1e-4 or x[j] >= hi[j] - 1e-4:
-            warnings.append({"code": "at_bound", "message": f"{p.key}: ended at its limit ({values[p.key]:.3g}); the log pushes it outside the model's range", "time_s": None, "key": p.key})
+            warnings.append({"code": "at_bound", "message": f"{p.key}: ended at its limit ({p.display_text(values[p.key], units)}); the log pushes it outside the model's range", "time_s": None, "key": p.key})
     if not res.success or res.status == 0:
         warnings.append({"code": "not_converged", "message": f"the fit stopped before converging ({res.message}); the values are the best found", "time_s": None})
     rms = math.sqrt(chi2 / m) if m else math.nan

@@ -29,6 +29,7 @@ from scipy.optimize import least_squares
 
 from .. import constants as c
 from ..errors import InputError
+from ..units import PRESSURE_UNITS, format_pressure, format_pressure_sig, format_throughput
 
 #: default measurement uncertainty: sigma = max(SIGMA_FLOOR_PA, SIGMA_RELATIVE * p)
 #: [common practice: a bench dial or Pirani-type gauge reads to about 1 mbar or 2 % of reading]
@@ -271,7 +272,7 @@ def _warn(warnings: list, code: str, message: str, time_s: float | None = None) 
     warnings.append({"code": code, "message": message, "time_s": None if time_s is None else float(time_s)})
 
 
-def fit_rate_of_rise(time_s, pressure_pa, volume, *, sigma_pa=None) -> LeakTestResult:
+def fit_rate_of_rise(time_s, pressure_pa, volume, *, sigma_pa=None, units: str = "mbar") -> LeakTestResult:
     """Fit a rate-of-rise log: the linear leak plus a levelling vapor/outgassing part.
 
     Model p(t) = p0 + (Q/V) t + dp (1 - exp(-t/tau)), Q = V dp/dt for the linear part
@@ -294,6 +295,9 @@ def fit_rate_of_rise(time_s, pressure_pa, volume, *, sigma_pa=None) -> LeakTestR
         Isolated volume: apparatus, hose and trap [m^3].
     sigma_pa : float or ndarray, optional
         Reading uncertainty [Pa]; default max(1 mbar, 2 % of reading).
+    units : str
+        Pressure display unit of the warning texts (mbar, torr, pa, inhg, psi): pressures in it,
+        throughputs in it times L/s, as the table printed beside them. The numbers are SI.
 
     Returns
     -------
@@ -305,6 +309,9 @@ def fit_rate_of_rise(time_s, pressure_pa, volume, *, sigma_pa=None) -> LeakTestR
         raise InputError("rate-of-rise fit: time and pressure must be 1-D arrays of one length")
     if not (np.isfinite(volume) and volume > 0):
         raise InputError(f"rate-of-rise fit: the volume must be positive, got {volume!r} m^3")
+    if units.lower() not in PRESSURE_UNITS:
+        raise InputError(f"units: unknown pressure display unit {units!r}; expected one of {', '.join(PRESSURE_UNITS)}")
+    units = units.lower()
     warnings: list[dict] = []
     keep = np.isfinite(p_all) & np.isfinite(t_all)
     if sigma_pa is not None:
@@ -384,7 +391,7 @@ def fit_rate_of_rise(time_s, pressure_pa, volume, *, sigma_pa=None) -> LeakTestR
             warnings,
             "leak_not_resolved",
             f"the leak rise is within {SIGNIFICANCE:g} standard errors of zero: "
-            f"the leak is below about {(slope + SIGNIFICANCE * se_slope) * volume:.3g} Pa m^3/s",
+            f"the leak is below about {format_throughput((slope + SIGNIFICANCE * se_slope) * volume, units)}",
         )
     scale = math.sqrt(max(red, 1.0)) if np.isfinite(red) else 1.0
     z = np.abs(resid) / (sigma * scale)
@@ -393,7 +400,7 @@ def fit_rate_of_rise(time_s, pressure_pa, volume, *, sigma_pa=None) -> LeakTestR
         _warn(
             warnings,
             "outlier",
-            f"reading {p[i]:.4g} Pa is {z[i]:.1f} sigma off the fitted curve",
+            f"reading {format_pressure_sig(p[i], units, 4)} is {z[i]:.1f} sigma off the fitted curve",
             t_log[i],
         )
     if outliers.size > 5:
@@ -403,7 +410,8 @@ def fit_rate_of_rise(time_s, pressure_pa, volume, *, sigma_pa=None) -> LeakTestR
         _warn(
             warnings,
             "near_atmosphere",
-            f"the pressure exceeds {NEAR_ATMOSPHERE_SHARE:g} atm: the leak flow falls as the inside "
+            f"the pressure exceeds {format_pressure(NEAR_ATMOSPHERE_SHARE * c.STANDARD_ATMOSPHERE, units)} "
+            f"({NEAR_ATMOSPHERE_SHARE:g} atm): the leak flow falls as the inside "
             "approaches the outside pressure, so the rise is no longer linear; test at working vacuum",
             t_log[i],
         )

@@ -28,11 +28,9 @@ def _free_keys(free: list[str] | None) -> tuple[str, ...]:
 
 
 def _pm(value: float, stderr: float) -> str:
-    import math
+    from ..units import format_plus_minus
 
-    if not math.isfinite(stderr):
-        return f"{value:.4g} ± ?"
-    return f"{value:.4g} ± {stderr:.2g}"
+    return format_plus_minus(value, stderr, ".4g", unknown=" ± ?")
 
 
 def fit_table(fit, unit: str = "mbar"):
@@ -49,18 +47,7 @@ def fit_table(fit, unit: str = "mbar"):
     rows = [(k, fit.start[k], fit.values[k], fit.stderr[k], "") for k in fit.keys]
     rows += [(k, v["start"], v["value"], v["stderr"], " (this run)") for k, v in fit.nuisance.items()]
     for key, start, value, stderr, what in rows:
-        p = FITTABLE[key]
-        scale = p.display_factor
-        unit_label = p.display_unit
-        if key == "ejector.cutoff_width" and unit != "mbar":
-            from ..units import PRESSURE_LABELS, PRESSURE_UNITS
-
-            scale, unit_label = 1.0 / PRESSURE_UNITS[unit], PRESSURE_LABELS[unit]
-        if key == "apparatus.leak_rate" and unit != "mbar":
-            from ..units import PRESSURE_LABELS, throughput_in
-
-            scale, unit_label = throughput_in(1.0, unit), f"{PRESSURE_LABELS[unit]} L/s"
-        offset = p.display_offset
+        scale, offset, unit_label = FITTABLE[key].display_scale(unit)
         table.add_row(key + what, f"{start * scale + offset:.4g}", _pm(value * scale + offset, stderr * scale), unit_label)
     return table
 
@@ -106,7 +93,9 @@ def fit(
     keys = _free_keys(free)
     s = load_scenario(scenario, set_ or [])
     run_log = read_log(log, barometric_pressure=s.barometric_pressure)
-    result = fit_scenario(s, run_log, keys, compound=compound if compound is not None else _default_compound(s, run_log))
+    result = fit_scenario(
+        s, run_log, keys, compound=compound if compound is not None else _default_compound(s, run_log), units=unit
+    )
 
     from ..report.fit_plots import fit_figure
 

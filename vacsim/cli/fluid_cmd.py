@@ -36,11 +36,18 @@ def _validate(glycol: str, mass_fraction: Optional[float]) -> float:
     if not 0.0 <= mass_fraction <= MAX_MASS_FRACTION:
         raise InputError(
             f"--mass-fraction: {mass_fraction:g} is outside 0..{MAX_MASS_FRACTION:g} "
-            f"(mass fraction 0..{MAX_MASS_FRACTION:g}, e.g. 0.3 for 30 %)"
+            f"(mass fraction 0..{MAX_MASS_FRACTION:g}, e.g. 0.3 for 30 wt%)"
         )
     if glycol == "none" and mass_fraction != 0.0:
         raise InputError(f"--mass-fraction: {mass_fraction:g} given without --glycol ethylene|propylene")
     return float(mass_fraction)
+
+
+def _mix_name(glycol: str, mass_fraction: float) -> str:
+    """The tub liquid's name for titles: 'water' or '30 wt% ethylene glycol' (glycol mass fraction)."""
+    if glycol == "none" or mass_fraction == 0:
+        return "water"
+    return f"{100 * mass_fraction:.4g} wt% {glycol} glycol"
 
 
 @app.command("fluid")
@@ -49,7 +56,7 @@ def fluid(
     glycol: Annotated[str, typer.Option("--glycol", help="Glycol in the water: none, ethylene or propylene.")] = "none",
     mass_fraction: Annotated[
         Optional[float],
-        typer.Option("--mass-fraction", help="Glycol mass fraction 0..0.6 (0.3 = 30 wt %)."),
+        typer.Option("--mass-fraction", help="Glycol mass fraction 0..0.6 (0.3 = 30 wt%)."),
     ] = None,
     units: Annotated[str, typer.Option("--units", help=PRESSURE_UNIT_HELP)] = "mbar",
     as_json: Annotated[bool, typer.Option("--json", help="Print one JSON object (SI units) instead of a table.")] = False,
@@ -67,7 +74,7 @@ def fluid(
     glycol = glycol.strip().lower()
     w = _validate(glycol, mass_fraction)
     temperature = parse_quantity(at, "temperature", where="--at")
-    name = props.describe(glycol, w)
+    name = _mix_name(glycol, w)
     t_freeze = float(props.freezing_point(glycol, w))
     if temperature < t_freeze - 1e-9:
         raise InputError(

@@ -29,13 +29,9 @@ def _floor_cost(scenario: Path, leak_rate_pa_m3_s: float) -> float:
 
 
 def _pm(value: float, stderr: float, digits: str = ".3g") -> str:
-    import math
+    from ..units import format_plus_minus
 
-    if not math.isfinite(value):
-        return "-"
-    if not math.isfinite(stderr):
-        return f"{value:{digits}}"
-    return f"{value:{digits}} ± {stderr:.2g}"
+    return format_plus_minus(value, stderr, digits)
 
 
 @app.command("leak")
@@ -58,7 +54,7 @@ def leak(
 ) -> None:
     """Rate-of-rise leak test: fit the linear leak and the levelling vapor part of a logged rise."""
     from ..logs import read_log
-    from ..units import PRESSURE_LABELS, format_pressure, parse_quantity, throughput_in
+    from ..units import PRESSURE_LABELS, format_pressure, parse_quantity, throughput_in, throughput_label
     from ..errors import InputError
 
     unit = check_pressure_unit(units)
@@ -72,7 +68,7 @@ def leak(
 
     from ..analysis.leak import fit_rate_of_rise
 
-    result = fit_rate_of_rise(run.time_s, run.pressure_pa, volume_m3)
+    result = fit_rate_of_rise(run.time_s, run.pressure_pa, volume_m3, units=unit)
 
     floor_cost_pa = None
     if scenario is not None:
@@ -115,7 +111,7 @@ def leak(
     table.add_row(
         "leak rate",
         _pm(throughput_in(result.leak_rate_pa_m3_s, unit), throughput_in(result.leak_rate_stderr_pa_m3_s, unit))
-        + f" {label} L/s",
+        + f" {throughput_label(unit)}",
     )
     if result.model == "levelling":
         table.add_row(

@@ -67,7 +67,7 @@ def describe(glycol: str, mass_fraction: float) -> str:
     """Short human name of the fluid, e.g. 'water' or '30 % ethylene glycol'."""
     if glycol == "none" or mass_fraction == 0:
         return "water"
-    return f"{100 * mass_fraction:.4g} % {glycol} glycol"
+    return f"{100 * mass_fraction:.4g} wt% {glycol} glycol"
 
 
 def _kind(glycol):

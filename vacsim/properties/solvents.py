@@ -18,7 +18,13 @@ from typing import Callable
 
 import numpy as np
 
-from ..constants import GAS_CONSTANT
+from ..constants import (
+    GAS_CONSTANT,
+    WATER_CRITICAL_PRESSURE,
+    WATER_CRITICAL_TEMPERATURE,
+    WATER_TRIPLE_POINT_PRESSURE,
+    WATER_TRIPLE_POINT_TEMPERATURE,
+)
 from ..errors import InputError
 from ._validity import check_range
 from .solvent_data import COMPOUNDS, Compound, VaporPressureCorrelation
@@ -33,6 +39,8 @@ __all__ = [
     "boiling_temperature",
     "henry_solubility",
     "solubility_mass_fraction",
+    "LiquidRange",
+    "liquid_range",
 ]
 
 # Reference temperature of Sander's compilation [K] (Sander 2023, Sect. 2).
@@ -357,6 +365,80 @@ def boiling_temperature(compound: str | Compound, pressure):
     if not eq.checks_own_range:
         check_range(_range_name(c), t[np.isfinite(t)], corr.t_min, corr.t_max, "K")
     return _out(t)
+
+
+#: Equation forms whose sources state their range as the whole liquid range, from the triple
+#: (melting) point to the critical point: IAPWS by definition (R6-95, SR1-86); Poling et al.
+#: (2001) App. A Wagner rows and VDI Heat Atlas D3.1 PPDS rows run from the melting point to Tc;
+#: Perry's Table 2-8 DIPPR rows from the triple point to Tc. Each row's t_min and t_max are checked
+#: against independent triple/melting and critical temperatures in tests/properties/test_solvents.py.
+#: Antoine ranges are fitted intervals only and say nothing about the phase.
+LIQUID_RANGE_FORMS = frozenset({"iapws_water", "wagner_25_5", "dippr_101"})
+
+
+@dataclass(frozen=True)
+class LiquidRange:
+    """Where the pure liquid can boil: between its triple point and its critical point.
+
+    Attributes
+    ----------
+    triple_temperature, critical_temperature : float
+        Ends of the liquid range [K].
+    triple_pressure, critical_pressure : float
+        Vapor pressure at those ends [Pa]: below the first the solid sublimes, above the
+        second there is no liquid-vapor boundary.
+    exact : bool
+        True where the ends are the measured triple and critical points (water, IAPWS);
+        False where they are the correlation's stated Tmin and Tc (Tmin at the melting or
+        triple point, to within a few K).
+    triple_source, critical_source : str
+        Where each end comes from.
+    """
+
+    triple_temperature: float
+    triple_pressure: float
+    critical_temperature: float
+    critical_pressure: float
+    exact: bool
+    triple_source: str
+    critical_source: str
+
+
+def liquid_range(compound: str | Compound) -> LiquidRange | None:
+    """The liquid range of a pure compound, as far as its vapor-pressure source states it.
+
+    Water: the triple point (IAPWS R14-08(2011), 273.16 K, 611.657 Pa) and the critical point
+    (IAPWS R6-95, 647.096 K, 22.064 MPa). Other compounds whose correlation form is in
+    :data:`LIQUID_RANGE_FORMS`: the correlation's stated range t_min..t_max and its own vapor
+    pressure at the two ends.
+
+    Parameters
+    ----------
+    compound : str or Compound
+        The compound or any of its names.
+
+    Returns
+    -------
+    LiquidRange or None
+        None where the source's range is only a fitted interval (Antoine rows).
+    """
+    c = get_compound(compound)
+    corr = c.vapor_pressure
+    if corr.kind == "iapws_water":
+        return LiquidRange(
+            WATER_TRIPLE_POINT_TEMPERATURE, WATER_TRIPLE_POINT_PRESSURE,
+            WATER_CRITICAL_TEMPERATURE, WATER_CRITICAL_PRESSURE,
+            True, "IAPWS R14-08(2011)", "IAPWS R6-95",
+        )
+    if corr.kind not in LIQUID_RANGE_FORMS:
+        return None
+    eq = _equation(corr.kind)
+    with np.errstate(all="ignore"):
+        p_low, p_high = (float(eq.pressure(t, *corr.coefficients)) for t in (corr.t_min, corr.t_max))
+    return LiquidRange(
+        corr.t_min, p_low, corr.t_max, p_high, False,
+        "the Tmin of its vapor-pressure source, at its melting point", "the Tc of its vapor-pressure source",
+    )
 
 
 def henry_solubility(compound: str | Compound, temperature):
