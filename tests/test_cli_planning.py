@@ -84,6 +84,22 @@ def test_compare_table_and_words(tmp_path):
     res = _invoke(["compare", ICED, GLYCOL, "--out", str(tmp_path / "c"), "--jobs", "1", "--units", "torr"])
     assert "comparison" in res.stdout and "lowest pressure" in res.stdout and "Torr" in res.stdout
     assert "glycol-chilled's lowest pressure is" in res.stdout
+    # CliRunner's stdout is no terminal (no color): the best value is marked with a character
+    row = next(line for line in res.stdout.splitlines() if "lowest pressure" in line)
+    cells = [c.strip() for c in row.strip().strip("│").split("│")]
+    assert cells[2].startswith("* ") and "*" not in cells[1]  # glycol-chilled is lowest (test_compare_json_and_figure)
+
+
+def test_sweep_grid_with_steps_per_range_and_notes(tmp_path):
+    tap = str(SCENARIOS / "bench-tap-water.toml")  # gives tub.ua = "3 W/K"
+    out = tmp_path / "g"
+    res = _invoke(["sweep", tap, "--vary", "tub.liquid_volume=8..12L", "--steps", "3", "--vary", "run.ambient_temperature=18..26degC",
+                   "--steps", "2", "--jobs", "2", "--out", str(out)])
+    data = json.loads((out / "sweep.json").read_text())
+    assert data["shape"] == [3, 2]  # derived: one --steps per range, in order
+    assert len(data["notes"]) == 1 and "tub.ua is held at 3 W/K" in data["notes"][0]
+    assert "tub.ua is held at 3 W/K" in " ".join(res.stdout.split())
+    assert "liquid volume (L)" in res.stdout and "ambient temperature (°C)" in res.stdout
 
 
 BAD_INPUTS = {
@@ -94,6 +110,11 @@ BAD_INPUTS = {
     "bad jobs": (["sweep", ICED, "--vary", "tub.ice=0..4kg", "--jobs", "0"], "--jobs"),
     "ice bad interval": (["ice", ICED, "--top-up", "3 kg"], "--top-up"),
     "compare one file": (["compare", ICED], "two or more"),
+    # bench-iced.toml's barometric pressure is 1013 mbar: a hold above it is no vacuum
+    "ice hold above barometric": (["ice", ICED, "--hold", "2000 mbar"], "barometric pressure"),
+    "compare hold above barometric": (["compare", ICED, GLYCOL, "--hold", "2000 mbar"], "barometric pressure"),
+    "non-numeric key": (["sweep", ICED, "--vary", "tub.glycol=none,ethylene"], "none/ethylene/propylene"),
+    "too many steps": (["sweep", ICED, "--vary", "tub.ice=0..1kg", "--steps", "2", "--steps", "3"], "--steps"),
 }
 
 

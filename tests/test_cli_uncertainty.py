@@ -35,6 +35,36 @@ def test_spread_json_and_files(tmp_path):
     assert json.loads(again.stdout) == data  # same seed, same output
 
 
+def test_spread_table_marks_lower_bounds_when_samples_hold_to_the_end(tmp_path):
+    # the 4 h demo run: some samples hold the target to the end (seen in its spread), so the
+    # mean of the usable duration, at least, is a lower bound
+    res = CliRunner().invoke(app, ["spread", DEMO, "--samples", "12", "--jobs", "1", "--out", str(tmp_path / "o")])
+    assert res.exit_code == 0, res.output
+    data = json.loads((tmp_path / "o" / "spread.json").read_text())
+    held = data["usable_duration_s"]["held_to_end"]
+    assert held > 0 and data["usable_duration_s"]["lower_bound"]["mean"] is True
+    row = next(line for line in res.stdout.splitlines() if "holds target for" in line)
+    assert "≥" in row
+    assert f"{held} of 12 samples held the target for the whole run" in " ".join(res.stdout.split())
+
+
+def test_help_keeps_square_brackets():
+    for args in (["--help"], ["spread", "--help"], ["sensitivity", "--help"]):
+        res = CliRunner().invoke(app, args, env={"COLUMNS": "200"})
+        assert res.exit_code == 0 and "[uncertain]" in res.stdout, (args, res.stdout)
+    assert "[fitted]" in CliRunner().invoke(app, ["spread", "--help"], env={"COLUMNS": "200"}).stdout
+
+
+def test_sensitivity_ranges_in_display_units():
+    from vacsim.cli.spread_cmd import _range_text
+
+    # 0 degC = 273.15 K; 1 mbar L/s = 0.1 Pa m^3/s (by definition, NIST SP 811)
+    assert _range_text("tub.ua", 2.1, 3.9) == "2.1 … 3.9 W/K"
+    assert _range_text("run.ambient_temperature", 291.15, 299.15) == "18 … 26 °C"
+    assert _range_text("apparatus.leak_rate", 0.001, 0.003) == "0.01 … 0.03 mbar·L/s"
+    assert _range_text("ejector.entrainment_ratio", 0.8, 1.2) == "0.8 … 1.2"
+
+
 def test_spread_table_and_lhs(tmp_path):
     res = CliRunner().invoke(app, ["spread", DEMO, "--samples", "8", "--method", "lhs", "--jobs", "1", "--set", "run.duration=1 h", "--out", str(tmp_path / "o")])
     assert res.exit_code == 0, res.output
@@ -49,6 +79,8 @@ def test_sensitivity_json_and_chart(tmp_path):
     assert data["method"] == "morris" and data["trajectories"] == 3 and data["runs"] == 12
     assert [set(r) >= {"key", "mu_star", "sigma"} for r in data["ranking"]] == [True] * 3
     assert {p.name for p in out.iterdir()} == {"sensitivity.json", "sensitivity.png"}
+    table = CliRunner().invoke(app, ["sensitivity", DEMO, "--trajectories", "3", "--jobs", "1", "--set", "run.duration=1 h", "--out", str(tmp_path / "t")])
+    assert "mu* [min]" in table.stdout and "W/K" in table.stdout  # units survive rich markup
 
 
 def test_bad_input_is_one_line_and_exit_2(tmp_path):

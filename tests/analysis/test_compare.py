@@ -111,3 +111,26 @@ def test_compare_at_a_common_target_and_its_figure():
 def test_one_file_is_not_a_comparison():
     with pytest.raises(InputError, match="two or more"):
         compare([SCENARIOS / "bench-iced.toml"])
+
+
+def test_table_marks_the_best_value_in_plain_text():
+    # a pipe has no color: the best value carries a character (the table's own contract)
+    import io
+    from types import SimpleNamespace
+
+    from rich.console import Console
+
+    from vacsim.cli.compare_cmd import BEST_MARK, comparison_table
+
+    a, b = _summary(), _summary(min_pressure_pa=1200.0, ice_gone_s=None)
+    names = ["A", "B"]
+    cmp = SimpleNamespace(names=names, summaries=[a, b], winners=winners(names, [a, b]))
+    out = Console(file=io.StringIO(), width=200, force_terminal=False, color_system=None, record=True)
+    out.print(comparison_table(cmp))
+    text = out.export_text()
+    row = next(line for line in text.splitlines() if "lowest pressure" in line)
+    assert f"{BEST_MARK} 12.0 mbar" in row and f"{BEST_MARK} 15.0 mbar" not in row  # derived: 1200 Pa < 1500 Pa
+    assert f"marks the best" in text
+    tie = next(line for line in text.splitlines() if "motive flow" in line)
+    assert BEST_MARK not in tie  # equal values: nothing is best
+    assert "last ice gone after" in text

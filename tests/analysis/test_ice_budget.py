@@ -186,3 +186,11 @@ def test_no_target_is_an_input_error():
 def test_bad_options_are_input_errors(kwargs, match):
     with pytest.raises(InputError, match=match):
         solve_ice(load_scenario(ICED), **kwargs)
+
+
+@pytest.mark.parametrize("hold", [200000.0, 101300.0])  # 2000 mbar and 1013 mbar: the demo's barometric pressure
+def test_hold_at_or_above_the_barometric_pressure_is_refused(hold):
+    # bench-iced.toml gives run.barometric_pressure = "1013 mbar" (= 101300 Pa by definition of mbar)
+    with pytest.raises(InputError, match="barometric pressure") as err:
+        solve_ice(load_scenario(ICED), hold=hold)
+    assert "\n" not in str(err.value)

@@ -6,7 +6,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from vacsim.analysis.spread import FIGURES, figure_band, run_spread
+from vacsim.analysis.spread import FIGURES, censored_lower_bounds, figure_band, run_spread
 from vacsim.analysis.uncertain import (
     Distribution,
     distributions_from_fit,
@@ -205,3 +205,30 @@ def test_unbatchable_keys_run_one_by_one_and_agree():
     volume = parse_uncertain({"tub.liquid_volume": {"uniform": ["9 L", "11 L"]}})
     r = run_spread(s, samples=2, seed=2, distributions=volume, jobs=1)
     assert not r.batched and r.figures["min_pressure_pa"].shape == (2,)
+
+
+def test_percentiles_among_runs_held_to_the_end_are_lower_bounds():
+    # derived (Hyndman & Fan 1996 definition 7 on five values): P10 interpolates ranks 0-1,
+    # P50 is rank 2, P90 interpolates ranks 3-4; only rank 4 (the largest) is cut by the run's end
+    values = np.array([1.0, 2.0, 3.0, 4.0, 10.0])
+    held = np.array([False, False, False, False, True])
+    assert censored_lower_bounds(values, held) == {"p10": False, "p50": False, "p90": True, "mean": True}
+    # a short hold that held to the end (reached late) ranks low and makes every percentile a bound
+    held = np.array([True, False, False, False, False])
+    assert censored_lower_bounds(values, held) == {"p10": True, "p50": True, "p90": True, "mean": True}
+    assert censored_lower_bounds(values, np.zeros(5, bool)) == {"p10": False, "p50": False, "p90": False, "mean": False}
+
+
+def test_spread_reports_which_usable_figures_are_lower_bounds():
+    r = run_spread(_iced("4 h"), samples=12, seed=0, jobs=1)
+    held = r.held_mask()
+    assert held.sum() == r.held_to_end() > 0  # the 4 h demo: some samples hold to the end (seen in its spread)
+    # a held sample's first window ends at the run's end (the definition of held_to_end)
+    end = r.figures["time_to_target_s"] + r.figures["usable_duration_s"]
+    assert end[held] == pytest.approx(np.full(held.sum(), 4 * 3600.0))
+    bounds = r.lower_bounds("usable_duration_s")
+    assert bounds["mean"] and bounds["p90"]
+    data = r.to_json()["usable_duration_s"]
+    assert data["lower_bound"] == bounds and data["held_to_end"] == held.sum()
+    assert isinstance(data["p90"], float)  # the JSON stays numeric
+    assert r.lower_bounds("min_pressure_pa") == {"p10": False, "p50": False, "p90": False, "mean": False}

@@ -19,7 +19,7 @@ FIGURES = (
     ("min_tub_temperature_k", "coldest tub", None, "temperature"),
     ("max_tub_temperature_k", "warmest tub", "low", "temperature"),
     ("final_tub_temperature_k", "tub at end", "low", "temperature"),
-    ("ice_gone_s", "ice gone after", None, "duration"),
+    ("ice_gone_s", "last ice gone after", None, "duration"),  # with top-ups: the last melt-out
     ("motive_flow_m3_s", "motive flow", "high", "flow"),
     ("ejector_speed_m3_s", "ejector speed at start", "high", "speed"),
     ("pump_heat_w", "pump heat into tub", "low", "power"),

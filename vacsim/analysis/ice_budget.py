@@ -148,9 +148,21 @@ class IcePlan:
 
 
 def with_target(scenario: Scenario, pressure: float) -> Scenario:
-    """The same scenario with its target replaced by a pressure [Pa] (--hold)."""
+    """The same scenario with its target replaced by a pressure [Pa] (--hold).
+
+    A hold at or above the barometric pressure is refused: the apparatus starts there, so such
+    a "target" is met at time zero without any vacuum and every answer would be trivially 0.
+    """
+    from ..units import format_pressure
+
     if not (pressure > 0):
         raise InputError(f"--hold: expected a pressure above zero, got {pressure!r} Pa")
+    baro = scenario.barometric_pressure
+    if pressure >= baro:
+        raise InputError(
+            f"--hold: {format_pressure(pressure)} is at or above the barometric pressure ({format_pressure(baro)}); "
+            "give a vacuum to hold, below it (e.g. '25 mbar')"
+        )
     raw = raw_of(scenario)
     raw["target"] = {"pressure": f"{pressure!r} Pa"}
     return build_scenario(raw, source_of(scenario))

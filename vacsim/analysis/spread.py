@@ -14,7 +14,9 @@ parallel. The deterministic run (the scenario as written) is simulated once for 
 counted per figure (`none`) and ranked as later than every value that happens, i.e. as +infinity:
 a percentile that falls among those samples is reported as None ("not within the run"); the mean
 is over the samples that have a value (None when none has). The usable duration is 0 when the
-target is never reached (as in summary.json), so it is never None.
+target is never reached (as in summary.json), so it is never None; a sample that holds the target
+to the end of the run has its usable duration cut by the run's end, so a percentile among those
+samples is a lower bound (SpreadResult.lower_bounds; `lower_bound` in the JSON).
 """
 
 from __future__ import annotations
@@ -100,10 +102,22 @@ class SpreadResult:
         """{p10, p50, p90, mean, count, none} of one figure (see the module docstring for None)."""
         return figure_band(self.figures[name])
 
+    def held_mask(self) -> np.ndarray:
+        """Per sample, whether its first window lasts to the end of the run: its usable duration
+        is cut by the run's end (right-censored), the true hold is at least that long."""
+        end = self.figures["time_to_target_s"] + self.figures["usable_duration_s"]
+        return np.isfinite(end) & (end >= self.scenario.run.duration - 1e-6)
+
     def held_to_end(self) -> int:
         """Samples whose first window lasts to the end of the run (their usable duration is cut by it)."""
-        end = self.figures["time_to_target_s"] + self.figures["usable_duration_s"]
-        return int(np.sum(np.isfinite(end) & (end >= self.scenario.run.duration - 1e-6)))
+        return int(np.sum(self.held_mask()))
+
+    def lower_bounds(self, name: str = "usable_duration_s") -> dict[str, bool]:
+        """{p10, p50, p90, mean}: True where the figure's value is only a lower bound because
+        samples that held to the end of the run enter it (see censored_lower_bounds). Only the
+        usable duration is cut by the run's end; other figures give all False."""
+        held = self.held_mask() if name == "usable_duration_s" else np.zeros(self.samples, dtype=bool)
+        return censored_lower_bounds(self.figures[name], held)
 
     def pressure_band(self) -> dict[int, np.ndarray]:
         """Percentiles of pressure at each stored time, {10: ..., 50: ..., 90: ...} [Pa]."""
@@ -123,12 +137,14 @@ class SpreadResult:
         for name in FIGURES:
             out[name] = self.band(name)
         out["usable_duration_s"]["held_to_end"] = self.held_to_end()
+        out["usable_duration_s"]["lower_bound"] = self.lower_bounds("usable_duration_s")
         out["deterministic"] = {name: det[name] for name in FIGURES}
         out["uncertain"] = [
             {"key": d.key, "distribution": d.name, "parameters_si": list(d.params), "sampled_min": float(col.min()), "sampled_max": float(col.max())}
             for d, col in zip(self.distributions, self.values.T)
         ]
         out["none_means"] = "target never reached / ice not gone within the run; ranked as later than any value, so a percentile among them is null; mean over samples with a value"
+        out["lower_bound_means"] = "held_to_end samples kept the target to the end of the run, so their usable duration is cut by it; a percentile (or the mean) they enter is a lower bound (lower_bound: true)"
         return out
 
 
@@ -154,6 +170,29 @@ def figure_band(values) -> dict:
     out["mean"] = float(happened.mean()) if happened.size else None
     out["count"] = int(happened.size)
     out["none"] = int(v.size - happened.size)
+    return out
+
+
+def censored_lower_bounds(values, censored) -> dict[str, bool]:
+    """Which of P10/P50/P90 and the mean of `values` are lower bounds when the `censored`
+    samples' true values may be larger (right-censoring: a hold cut by the end of the run).
+
+    Every percentile (figure_band's, Hyndman & Fan 1996 definition 7) is non-decreasing in each
+    sample, so raising a censored sample can only raise it; it is exact when every censored
+    sample ranks above the order statistics it interpolates between, and a lower bound
+    otherwise. The mean is a lower bound as soon as one sample is censored.
+    """
+    v = np.asarray(values, dtype=float)
+    cut = np.asarray(censored, dtype=bool) & np.isfinite(v)
+    out = {f"p{q}": False for q in PERCENTILES}
+    out["mean"] = bool(cut.any())
+    if v.size == 0 or not cut.any():
+        return out
+    order = np.argsort(np.where(np.isfinite(v), v, np.inf), kind="stable")
+    cut_sorted = cut[order]
+    for q in PERCENTILES:
+        hi = int(math.ceil(q / 100.0 * (v.size - 1)))
+        out[f"p{q}"] = bool(cut_sorted[: hi + 1].any())
     return out
 
 

@@ -82,14 +82,128 @@ def numeric_keys() -> list[str]:
     return keys
 
 
+def _field_of(key: str):
+    """The pydantic field behind a dotted key 'section.name', or None."""
+    section, _, name = key.partition(".")
+    info = Scenario.model_fields.get(section)
+    model = _model_of(info.annotation) if info is not None else None
+    return model.model_fields.get(name) if model is not None else None
+
+
+def _what_it_is(annotation) -> str:
+    """A few words on a non-numeric field's type ('a choice (none/ethylene/propylene)')."""
+    if typing.get_origin(annotation) in (typing.Union, types.UnionType):
+        args = [a for a in typing.get_args(annotation) if a is not type(None)]
+        if len(args) == 1:
+            return _what_it_is(args[0])
+    if typing.get_origin(annotation) is typing.Literal:
+        choices = [str(a) for a in typing.get_args(annotation)]
+        return f"a choice ({'/'.join(choices)})"
+    if annotation is bool:
+        return "a yes/no switch (true/false)"
+    if annotation is str:
+        return "a name (text)"
+    if typing.get_origin(annotation) in (list, tuple) or annotation in (list, tuple):
+        return "a list"
+    return "not a single number"
+
+
 def check_key(key: str) -> str:
-    """`key` if it is a numeric scenario key; else an InputError listing the valid ones."""
+    """`key` if it is a numeric scenario key; else an InputError: for a scenario key that is not
+    a number (tub.glycol) what it is instead, for an unknown key close matches and the valid ones."""
     valid = numeric_keys()
     if key in valid:
         return key
+    known = _field_of(key)
+    if known is not None:
+        raise InputError(
+            f"--vary: {key!r} is not numeric, it is {_what_it_is(known.annotation)}: a sweep varies numbers; "
+            f"run each setting with --set {key}=... (or vacsim compare). Numeric keys: {', '.join(valid)}"
+        )
     close = difflib.get_close_matches(key, valid, n=3)
     hint = f"; did you mean {', '.join(close)}?" if close else ""
     raise InputError(f"--vary: {key!r} is not a numeric scenario key{hint} Valid keys: {', '.join(valid)}")
+
+
+# ---- display units -------------------------------------------------------------------------------
+
+#: The trade's display unit of each kind of quantity (vacsim.units.KINDS): (pint unit, label).
+#: Pressures and throughputs follow the command's --units instead (see display_unit).
+DISPLAY_UNITS: dict[str, tuple[str, str]] = {
+    "temperature": ("degC", "°C"),
+    "temperature difference": ("K", "K"),
+    "volume": ("L", "L"),
+    "length": ("m", "m"),
+    "area": ("m^2", "m²"),
+    "mass": ("kg", "kg"),
+    "time": ("min", "min"),
+    "volume flow": ("L/min", "L/min"),
+    "speed": ("L/s", "L/s"),
+    "power": ("W", "W"),
+    "heat transfer coefficient": ("W/(m^2*K)", "W/(m²·K)"),
+    "thermal conductance": ("W/K", "W/K"),
+    "mass flow": ("g/min", "g/min"),
+    "rate constant": ("1/min", "1/min"),
+}
+#: Lengths whose field name ends so are shown in mm (bores, nozzles, ice pieces).
+MM_FIELDS = ("diameter", "piece_size")
+
+
+def key_kind(key: str) -> str | None:
+    """The kind of quantity a dotted scenario key holds (None: a plain number or not a key)."""
+    from .uncertain import key_info
+
+    try:
+        return key_info(key).kind
+    except InputError:
+        return None
+
+
+def display_unit(key: str, pressure_unit: str = "mbar") -> str | None:
+    """The label of the unit a key's values are shown in ('°C', 'L', 'mm', 'mbar·L/s'); None
+    for plain numbers."""
+    from ..units import PRESSURE_LABELS
+
+    kind = key_kind(key)
+    if kind is None:
+        return None
+    if kind == "pressure":
+        return PRESSURE_LABELS[pressure_unit.lower()]
+    if kind == "throughput":
+        return f"{PRESSURE_LABELS[pressure_unit.lower()]}·L/s"
+    if kind == "length" and key.endswith(MM_FIELDS):
+        return "mm"
+    return DISPLAY_UNITS[kind][1] if kind in DISPLAY_UNITS else None
+
+
+def to_display(key: str, values, pressure_unit: str = "mbar") -> np.ndarray:
+    """A key's SI values [SI unit of its kind] in its display unit (display_unit)."""
+    from ..units import KINDS, pressure_in, registry, throughput_in
+
+    v = np.asarray(values, dtype=float)
+    kind = key_kind(key)
+    if kind is None:
+        return v
+    if kind == "pressure":
+        return np.asarray(pressure_in(v, pressure_unit))
+    if kind == "throughput":
+        return np.asarray(throughput_in(v, pressure_unit))
+    if kind == "length" and key.endswith(MM_FIELDS):
+        return registry().Quantity(v, "m").to("mm").magnitude
+    if kind not in DISPLAY_UNITS:
+        return v
+    return np.asarray(registry().Quantity(v, KINDS[kind][1]).to(DISPLAY_UNITS[kind][0]).magnitude, dtype=float)
+
+
+def display_label(key: str, pressure_unit: str = "mbar") -> str:
+    """An axis label for a key: 'tub.liquid_volume [L]', 'run.ambient_temperature [°C]'."""
+    unit = display_unit(key, pressure_unit)
+    return f"{key} [{unit}]" if unit else key
+
+
+def format_value(value: float) -> str:
+    """A grid value as a tick or table label: four significant figures, no trailing zeros."""
+    return f"{value:.4g}"
 
 
 # ---- parsing --vary ------------------------------------------------------------------------------
@@ -240,10 +354,15 @@ class SweepResult:
     shape: tuple[int, ...]
     si_values: list[list[float]] = field(default_factory=list)  # per parameter, SI, in order
     target_pressure_pa: float | None = None
+    notes: list[str] = field(default_factory=list)  # what the sweep holds fixed that the user may not expect
 
     @property
     def parameters(self) -> list[str]:
         return [v.key for v in self.varies]
+
+    def display_values(self, j: int, pressure_unit: str = "mbar") -> np.ndarray:
+        """The j-th parameter's grid values in its display unit (display_unit)."""
+        return to_display(self.varies[j].key, self.si_values[j], pressure_unit)
 
     def column(self, name: str) -> np.ndarray:
         """A summary figure over the points as floats (NaN where missing), in `shape`."""
@@ -259,6 +378,7 @@ class SweepResult:
             "shape": list(self.shape),
             "target_pressure_pa": self.target_pressure_pa,
             "points": self.points,
+            "notes": list(self.notes),
         }
         if len(self.varies) == 1:
             out["parameter"] = self.varies[0].key
@@ -279,6 +399,35 @@ class SweepResult:
             row.append(p.get("error", ""))
             writer.writerow(row)
         return buf.getvalue()
+
+
+_ICE_KEYS = ("tub.ice_piece_size", "tub.ice_temperature", "tub.ice_heat_transfer")
+
+
+def sweep_notes(base: Scenario, keys) -> list[str]:
+    """Notes on what a sweep of `keys` holds fixed that changes its meaning: a tub that grows
+    while its heat-exchange (UA or wall area) stays as written, ice properties without ice."""
+    keys = list(keys)
+    tb = base.tub
+    notes = []
+    if "tub.liquid_volume" in keys and "tub.ua" not in keys and "tub.wall_area" not in keys:
+        if tb.ua is not None:
+            notes.append(
+                f"tub.ua is held at {tb.ua:.3g} W/K while tub.liquid_volume varies: a bigger tub gets no more wall "
+                "to take up room heat, so its benefit is overstated. Leave tub.ua out (the wall area is then "
+                "estimated from the liquid volume) or vary tub.ua with it."
+            )
+        elif tb.wall_area is not None:
+            notes.append(
+                f"tub.wall_area is held at {tb.wall_area:.3g} m² while tub.liquid_volume varies: a bigger tub gets no "
+                "more wall, so its benefit is overstated. Leave tub.wall_area out (it is then estimated from the "
+                "liquid volume) or vary it with the volume."
+            )
+    has_ice = tb.ice > 0 or "tub.ice" in keys or any(e.add_ice for e in base.schedule)
+    for key in keys:
+        if key in _ICE_KEYS and not has_ice:
+            notes.append(f"{key} has no effect: the scenario has no ice (tub.ice is 0 and no add_ice in the schedule).")
+    return notes
 
 
 def _checked_indices(v: Vary, is_range: bool) -> list[int]:
@@ -375,4 +524,7 @@ def run_sweep(
     target = targets.pop() if len(targets) == 1 else None
     if target is None and len(targets) == 0:
         target = target_pressure(base)
-    return SweepResult(scenario=base.name, varies=list(varies), points=points, shape=shape, si_values=si_values, target_pressure_pa=target)
+    return SweepResult(
+        scenario=base.name, varies=list(varies), points=points, shape=shape, si_values=si_values,
+        target_pressure_pa=target, notes=sweep_notes(base, keys),
+    )

@@ -9,6 +9,7 @@ import typer
 from rich.table import Table
 
 from .app import PRESSURE_UNIT_HELP, app, check_pressure_unit, console, emit_json, print_safety
+from .sweep_cmd import print_wide
 
 
 def _cell(kind: str, value, unit: str) -> str:
@@ -31,11 +32,17 @@ def _cell(kind: str, value, unit: str) -> str:
     return f"{value:.4g}"
 
 
+#: Marks the best value of a figure in plain text, so it survives a pipe or a file (the green
+#: of a terminal does not).
+BEST_MARK = "*"
+
+
 def comparison_table(comparison, unit: str = "mbar") -> Table:
-    """Figures as rows, variants as columns; the best value of each figure in bold green."""
+    """Figures as rows, variants as columns; the best value of each figure marked with
+    BEST_MARK (and bold green on a terminal)."""
     from ..analysis.compare import FIGURES
 
-    table = Table(title="comparison (best in green)", title_justify="left")
+    table = Table(title=f"comparison ({BEST_MARK} marks the best of each figure)", title_justify="left")
     table.add_column("figure", style="bold")
     for name in comparison.names:
         table.add_column(name, justify="right")
@@ -49,7 +56,8 @@ def comparison_table(comparison, unit: str = "mbar") -> Table:
                 text = "never"
             if key == "ice_gone_s" and value is None:
                 text = "not gone" if summary.get("ice_initial_kg") else "no ice"
-            row.append(f"[bold green]{text}[/bold green]" if name in best else text)
+            # the mark leads the value, so the right-aligned numbers stay aligned
+            row.append(f"[bold green]{BEST_MARK} {text}[/bold green]" if name in best else text)
         table.add_row(label, *row)
     return table
 
@@ -82,7 +90,7 @@ def compare(
     if as_json:
         emit_json(comparison.to_json())
     else:
-        console.print(comparison_table(comparison, unit))
+        print_wide(comparison_table(comparison, unit))
         for line in comparison.differences:
             console.print(f"• {line}", highlight=False)
         for name, summary in zip(comparison.names, comparison.summaries):

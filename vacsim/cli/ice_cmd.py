@@ -35,6 +35,11 @@ def plan_table(plan, unit: str = "mbar") -> Table:
     table.add_row("target first reached", format_duration(plan.hold_from_s))
     table.add_row("held until", format_duration(plan.hold_until_s))
     table.add_row("lowest pressure", format_pressure(plan.best_pressure_pa, unit))
+    if plan.result is not None:
+        gone = plan.result.summary["ice_gone_s"]
+        # with top-ups the run's figure is the last melt-out, after the last addition
+        label = "last ice gone after" if plan.mode == "top-up" and len(plan.schedule) > 1 else "ice gone after"
+        table.add_row(label, format_duration(gone) if gone is not None else ("not gone" if plan.total_ice_kg else "no ice"))
     if plan.free_volume_m3 is not None:
         table.add_row("ice volume / free volume", f"{plan.ice_volume_m3 * 1e3:.2f} L / {plan.free_volume_m3 * 1e3:.2f} L")
     return table

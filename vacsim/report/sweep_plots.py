@@ -1,7 +1,7 @@
 """Figures of the planning answers: sweeps (lines, heat-maps) and side-by-side comparisons.
 
 Matplotlib is imported lazily (through plots._pyplot) so the CLI starts fast. Times are shown
-in minutes, pressures in the display unit (mbar by default), temperatures in degC.
+in minutes, pressures in the display unit (mbar by default), temperatures in °C, each varied key in its kind's display unit (vacsim.analysis.sweep.display_unit).
 """
 
 from __future__ import annotations
@@ -11,6 +11,7 @@ from pathlib import Path
 import numpy as np
 
 from .. import constants as c
+from ..analysis.sweep import display_label
 from ..units import PRESSURE_LABELS, pressure_in
 from .files import save_figure_atomic
 from .plots import TARGET_COLOR, _minutes, _pyplot
@@ -29,11 +30,55 @@ def _minutes_or_nan(values):
     return np.asarray(values, dtype=float) / 60.0
 
 
+# Tick labels on a heat-map axis: at most this many grid values are labelled (every k-th beyond).
+_MAX_TICK_LABELS = 12
+# The "reaches target after" panel spans at least this many minutes (from zero), so a pump-down
+# that changes by seconds across the sweep is not drawn as a steep curve.
+_MIN_REACH_SPAN_MIN = 1.0
+
+
+def _cell_edges(values: np.ndarray) -> np.ndarray:
+    """Edges of cells centred on monotonic grid values: halfway between neighbours, the outer
+    edges half a step outside (so the cells line up with a linear axis)."""
+    v = np.asarray(values, dtype=float)
+    if v.size == 1:
+        return np.array([v[0] - 0.5, v[0] + 0.5])
+    mid = 0.5 * (v[1:] + v[:-1])
+    return np.concatenate([[2.0 * v[0] - mid[0]], mid, [2.0 * v[-1] - mid[-1]]])
+
+
+def _grid_axis(values: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """(cell centres, cell edges) on the axis: the values themselves when they are strictly
+    monotonic, else their positions 0..n-1 (labelled with the values)."""
+    v = np.asarray(values, dtype=float)
+    d = np.diff(v)
+    centres = v if (np.all(d > 0) or np.all(d < 0)) else np.arange(v.size, dtype=float)
+    return centres, _cell_edges(centres)
+
+
+def _label_ticks(axis, centres: np.ndarray, values: np.ndarray) -> None:
+    """Ticks at the grid values, labelled with them (every k-th when there are many)."""
+    from ..analysis.sweep import format_value
+
+    step = max(1, int(np.ceil(len(values) / _MAX_TICK_LABELS)))
+    keep = list(range(0, len(values), step))
+    axis.set_ticks([centres[i] for i in keep], labels=[format_value(values[i]) for i in keep])
+    from matplotlib.ticker import NullLocator
+
+    axis.set_minor_locator(NullLocator())
+
+
+def _reach_limits(ax, reach_min: np.ndarray) -> None:
+    """y limits of the time-to-target panel: from 0, spanning at least _MIN_REACH_SPAN_MIN."""
+    top = float(np.nanmax(reach_min)) if np.isfinite(reach_min).any() else 0.0
+    ax.set_ylim(0.0, max(_MIN_REACH_SPAN_MIN, 1.1 * top))
+
+
 def sweep_line_figure(sweep, unit: str = "mbar"):
     """Usable duration, time to target and lowest pressure against one varied parameter."""
     plt = _pyplot()
     v = sweep.varies[0]
-    x = np.asarray(v.values, dtype=float)
+    x = sweep.display_values(0, unit)
     label = PRESSURE_LABELS[unit]
     fig, axes = plt.subplots(3, 1, figsize=(7.5, 8.0), sharex=True, layout="constrained")
     hold = _minutes_or_nan(sweep.column("usable_duration_s"))
@@ -44,12 +89,13 @@ def sweep_line_figure(sweep, unit: str = "mbar"):
     axes[0].set_ylim(bottom=0)
     axes[1].plot(x, reach, "o-", color=REACH_COLOR, lw=2, ms=4, label="reaches target after")
     axes[1].set_ylabel("reaches target after [min]")
+    _reach_limits(axes[1], reach)
     axes[2].plot(x, lowest, "o-", color=LOWEST_COLOR, lw=2, ms=4, label="lowest pressure")
     if sweep.target_pressure_pa is not None:
         tgt = pressure_in(sweep.target_pressure_pa, unit)
         axes[2].axhline(tgt, color=TARGET_COLOR, ls=":", lw=1.2, label=f"target {tgt:.3g} {label}")
     axes[2].set_ylabel(f"lowest pressure [{label}]")
-    axes[2].set_xlabel(v.label)
+    axes[2].set_xlabel(display_label(v.key, unit))
     for ax in axes:
         ax.grid(True, alpha=0.3)
         ax.legend(loc="best", fontsize=8)
@@ -58,14 +104,17 @@ def sweep_line_figure(sweep, unit: str = "mbar"):
 
 
 def sweep_heatmap_figure(sweep, unit: str = "mbar"):
-    """Heat-map of the usable duration over a grid of two varied parameters."""
+    """Heat-map of the usable duration over a grid of two varied parameters: one cell per grid
+    point, centred on its values (edges halfway between neighbours), ticks at the grid values."""
     plt = _pyplot()
     v1, v2 = sweep.varies
-    x = np.asarray(v1.values, dtype=float)
-    y = np.asarray(v2.values, dtype=float)
+    x_values = sweep.display_values(0, unit)
+    y_values = sweep.display_values(1, unit)
+    x, x_edges = _grid_axis(x_values)
+    y, y_edges = _grid_axis(y_values)
     hold = _minutes_or_nan(sweep.column("usable_duration_s"))  # shape (n1, n2)
     fig, ax = plt.subplots(figsize=(7.5, 5.8), layout="constrained")
-    mesh = ax.pcolormesh(x, y, hold.T, shading="nearest", cmap=HEATMAP_CMAP)
+    mesh = ax.pcolormesh(x_edges, y_edges, hold.T, shading="flat", cmap=HEATMAP_CMAP)
     bar = fig.colorbar(mesh, ax=ax)
     bar.set_label("holds target for [min]")
     if len(x) <= _ANNOTATE_LIMIT and len(y) <= _ANNOTATE_LIMIT:
@@ -76,8 +125,12 @@ def sweep_heatmap_figure(sweep, unit: str = "mbar"):
                 text = "-" if not np.isfinite(val) else f"{val:.0f}"
                 dark = np.isfinite(val) and val < 0.6 * top
                 ax.text(xi, yj, text, ha="center", va="center", fontsize=8, color="white" if dark else "black")
-    ax.set_xlabel(v1.label)
-    ax.set_ylabel(v2.label)
+    _label_ticks(ax.xaxis, x, x_values)
+    _label_ticks(ax.yaxis, y, y_values)
+    ax.set_xlim(x_edges.min(), x_edges.max())
+    ax.set_ylim(y_edges.min(), y_edges.max())
+    ax.set_xlabel(display_label(v1.key, unit))
+    ax.set_ylabel(display_label(v2.key, unit))
     tgt = ""
     if sweep.target_pressure_pa is not None:
         tgt = f" {pressure_in(sweep.target_pressure_pa, unit):.3g} {PRESSURE_LABELS[unit]}"
