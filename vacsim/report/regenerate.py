@@ -26,7 +26,7 @@ EXTRA_JOBS: tuple[tuple[str, ...], ...] = (
     ("ice", "scenarios/bench-iced.toml", "--out", "results/bench-iced-ice"),
     ("ice", "scenarios/bench-iced.toml", "--set", "tub.ice=0.5 kg", "--top-up", "45 min", "--hold", "10 mbar", "--out", "results/bench-iced-top-up-plan"),
     ("sweep", "scenarios/bench-iced.toml", "--vary", "tub.ice=0..3kg", "--steps", "13", "--out", "results/bench-iced-sweep-ice"),
-    ("sweep", "scenarios/bench-tap-water.toml", "--vary", "tub.liquid_volume=5..40L", "--steps", "8",
+    ("sweep", "scenarios/bench-tap-water.toml", "--set", "tub.capacity=50 L", "--vary", "tub.liquid_volume=5..40L", "--steps", "8",
      "--vary", "run.ambient_temperature=18..30degC", "--steps", "7", "--out", "results/bench-tap-water-sweep-tub-room"),
     ("compare", "scenarios/bench-iced.toml", "scenarios/glycol-chilled.toml", "--out", "results/glycol-vs-ice"),
     ("compare", "scenarios/bench-iced.toml", "scenarios/glycol-chilled.toml", "--hold", "10 mbar", "--out", "results/glycol-vs-ice-10mbar"),
