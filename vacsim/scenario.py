@@ -523,11 +523,15 @@ def load_scenario(path: str | Path, overrides: list[str] | tuple[str, ...] = ())
     -------
     Scenario
     """
-    raw = read_raw(path)
+    return build_scenario(apply_overrides(read_raw(path), overrides), source=str(path))
+
+
+def apply_overrides(raw: dict, overrides) -> dict:
+    """A copy of `raw` with each 'dotted.key=value' override (the CLI's --set) applied in order."""
     for text in overrides:
         key, value = parse_override(text)
         raw = set_key(raw, key, value)
-    return build_scenario(raw, source=str(path))
+    return raw
 
 
 def raw_of(scenario: Scenario) -> dict:

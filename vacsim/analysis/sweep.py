@@ -496,14 +496,11 @@ def run_sweep(
     -------
     SweepResult
     """
-    from ..scenario import parse_override
+    from ..scenario import apply_overrides
     from ..simulation import target_pressure
     from .executor import run_many
 
-    raw = read_raw(scenario_path)
-    for text in overrides:
-        k, value = parse_override(text)
-        raw = set_key(raw, k, value)
+    raw = apply_overrides(read_raw(scenario_path), overrides)
     source = str(scenario_path)
     base = build_scenario(raw, source)
     raws, shape = prepare(raw, source, varies, [v.is_range for v in varies])

@@ -30,19 +30,12 @@ def _format(name: str, value, unit: str) -> str:
 
 
 def load_with_fit(path: Path, overrides: list[str], fit: Path | None):
-    """Load a scenario; a calibrated file's own `[fitted]` table (written by `vacsim fit`) is used
-    as its fit file when the scenario schema does not take that table itself."""
-    from ..scenario import Scenario, build_scenario, parse_override, read_raw, set_key
+    """Load a scenario with its --set overrides; a calibrated file's own `[fitted]` table is read
+    from the scenario itself (vacsim.analysis.uncertain.scenario_distributions)."""
+    from ..scenario import apply_overrides, build_scenario, read_raw
 
     raw = read_raw(path)
-    if "fitted" in raw and "fitted" not in Scenario.model_fields:
-        raw.pop("fitted")
-        if fit is None:
-            fit = path
-    for text in overrides:
-        key, value = parse_override(text)
-        raw = set_key(raw, key, value)
-    return build_scenario(raw, source=str(path)), fit
+    return build_scenario(apply_overrides(raw, overrides), source=str(path)), fit
 
 
 def _deterministic_held(spread) -> bool:
