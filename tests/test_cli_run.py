@@ -80,3 +80,18 @@ def test_bad_scenario_files(tmp_path, case):
     assert len(lines) == 1 and "Traceback" not in res.stderr
     assert str(path) in lines[0] and expected in lines[0]
     assert not (tmp_path / "results").exists()
+
+
+@pytest.mark.parametrize(
+    "override, expected",
+    [
+        ("tub.ice=2", "(--set): tub.ice: expected a mass with a unit"),
+        ("ejector.area_ratio=0.3 mm", "(--set): ejector.area_ratio: expected a plain number (dimensionless"),
+        ("name=../escape", "(--set): name: use letters, digits"),
+    ],
+)
+def test_bad_set_overrides_blame_the_command_line(tmp_path, override, expected):
+    res = _main("run", str(SCENARIOS / "bench-iced.toml"), "--set", override, "--out", str(tmp_path / "o"), cwd=tmp_path)
+    assert res.returncode == 2 and "Traceback" not in res.stderr
+    assert expected in res.stderr.strip().splitlines()[-1]
+    assert not (tmp_path / "o").exists()

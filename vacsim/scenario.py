@@ -417,6 +417,10 @@ def _format_error(source: str, err: dict) -> str:
         return f"{source}: {loc}: missing (required)"
     if err["type"].startswith(("greater_than", "less_than")):
         return f"{source}: {loc}: {msg.lower()} (got {err.get('input')!r})"
+    if err["type"] in ("float_parsing", "float_type"):
+        return f"{source}: {loc}: expected a plain number (dimensionless, no unit), got {err.get('input')!r}"
+    if err["type"] == "string_pattern_mismatch" and loc == "name":
+        return f"{source}: name: use letters, digits, '.', '_' or '-' only (it names the results folder), got {err.get('input')!r}"
     return f"{source}: {loc}: {msg}"
 
 
@@ -523,7 +527,17 @@ def load_scenario(path: str | Path, overrides: list[str] | tuple[str, ...] = ())
     -------
     Scenario
     """
-    return build_scenario(apply_overrides(read_raw(path), overrides), source=str(path))
+    raw = apply_overrides(read_raw(path), overrides)
+    try:
+        return build_scenario(raw, source=str(path))
+    except InputError as exc:
+        # blame --set, not the file, for a key the command line set
+        keys = {parse_override(text)[0] for text in overrides}
+        lines = [
+            line.replace(f"{path}: ", f"{path} (--set): ", 1) if any(f": {k}:" in line for k in keys) else line
+            for line in str(exc).splitlines()
+        ]
+        raise InputError("\n".join(lines)) from None
 
 
 def apply_overrides(raw: dict, overrides) -> dict:
