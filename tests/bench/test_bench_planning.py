@@ -29,16 +29,11 @@ SWEEP_JOBS = 2
 
 
 @pytest.fixture(scope="module")
-def single_run_s():
+def single_run_s(median_time):
     """Median wall time of one in-process run of the iced demo (load excluded) [s]."""
     s = load_scenario(ICED)
     simulate(s)  # warm caches (property tables, lazy imports)
-    times = []
-    for _ in range(7):
-        t0 = time.perf_counter()
-        simulate(s)
-        times.append(time.perf_counter() - t0)
-    return statistics.median(times)
+    return median_time(lambda: simulate(s), 7)
 
 
 def _report(capsys, text):

@@ -6,7 +6,6 @@ temperature against Radau at rtol 1e-10 must be <= 1 with rtol = 1e-4, atol = 1 
 """
 
 import statistics
-import time
 from pathlib import Path
 
 import numpy as np
@@ -28,15 +27,6 @@ def _error(result, reference):
     return worst
 
 
-def _median_time(fn, repeats):
-    times = []
-    for _ in range(repeats):
-        t0 = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - t0)
-    return statistics.median(times)
-
-
 def _loosest(scenario, method, reference):
     for rtol in (1e-3, 3e-4, 1e-4, 3e-5, 1e-5, 3e-6, 1e-6, 3e-7, 1e-7, 1e-8):
         if _error(simulate(scenario, method=method, rtol=rtol), reference) <= 1.0:
@@ -45,7 +35,7 @@ def _loosest(scenario, method, reference):
 
 
 @pytest.mark.parametrize("name", ["bench-iced", "small-flask-strong-pump"])
-def test_run_against_rk45(benchmark, heavy, name):
+def test_run_against_rk45(benchmark, heavy, median_time, name):
     s = load_scenario(SCENARIOS / f"{name}.toml")
     reference = simulate(s, method="Radau", rtol=1e-10)
     default = simulate(s)
@@ -54,7 +44,7 @@ def test_run_against_rk45(benchmark, heavy, name):
     default_time = benchmark.pedantic(lambda: simulate(s), rounds=7, iterations=1)
     del default_time
     ours = statistics.median(benchmark.stats.stats.data)
-    rk45 = _median_time(lambda: simulate(s, method="RK45", rtol=rk_rtol), 3)
+    rk45 = median_time(lambda: simulate(s, method="RK45", rtol=rk_rtol), 3)
     print(f"\n{name}: default (LSODA, rtol {s.run.relative_tolerance:g}) median {ours * 1e3:.1f} ms; "
           f"RK45 at equal accuracy (rtol {rk_rtol:g}) {rk45 * 1e3:.0f} ms; ratio 1/{rk45 / ours:.0f}")
     benchmark.extra_info.update(rk45_s=rk45, ratio=rk45 / ours, rk45_rtol=rk_rtol)

@@ -6,7 +6,6 @@ benchmark (parallelism alone over 2 cores would give about 500).
 """
 
 import statistics
-import time
 from pathlib import Path
 
 
@@ -19,18 +18,9 @@ SAMPLES = 1000
 TARGET_MULTIPLE = 250
 
 
-def _median(fn, repeats):
-    times = []
-    for _ in range(repeats):
-        t0 = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - t0)
-    return statistics.median(times)
-
-
-def test_spread_1000_samples(benchmark, heavy):
+def test_spread_1000_samples(benchmark, heavy, median_time):
     s = load_scenario(SCENARIOS / "bench-iced-uncertain.toml", ["run.duration=3 h"])
-    single = _median(lambda: simulate(s), 7)
+    single = median_time(lambda: simulate(s), 7)
     run_spread(s, samples=20, seed=0, jobs=2)  # warm caches (imports, pools) outside the timing
 
     def spread():
@@ -38,7 +28,7 @@ def test_spread_1000_samples(benchmark, heavy):
 
     result = benchmark.pedantic(spread, rounds=3, iterations=1)
     wall = statistics.median(benchmark.stats.stats.data)
-    one_by_one = _median(lambda: run_spread(s, samples=100, seed=1, jobs=2, batch=False), 1) * SAMPLES / 100
+    one_by_one = median_time(lambda: run_spread(s, samples=100, seed=1, jobs=2, batch=False), 1) * SAMPLES / 100
     print(
         f"\n{SAMPLES} samples of a 3-hour run, 2 workers: wall {wall:.2f} s, {SAMPLES / wall:.0f} runs/s, "
         f"{wall / single:.0f} x the single-run median ({single * 1e3:.1f} ms); "

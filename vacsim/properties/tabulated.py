@@ -40,18 +40,10 @@ def hermite(x, grid, values, slopes):
     if np.ndim(x) == 0 and math.isfinite(x):  # the ODE's hot path: plain floats are ~5x faster
         pos = min(max((float(x) - grid[0]) / h, 0.0), grid.size - 1.000001)
         i = int(pos)
-        u = pos - i
-        u2 = u * u
-        u3 = u2 * u
-        return (
-            (2 * u3 - 3 * u2 + 1) * values[i]
-            + (u3 - 2 * u2 + u) * h * slopes[i]
-            + (-2 * u3 + 3 * u2) * values[i + 1]
-            + (u3 - u2) * h * slopes[i + 1]
-        )
-    pos = np.clip((np.asarray(x, dtype=float) - grid[0]) / h, 0.0, grid.size - 1.000001)
-    pos = np.where(np.isfinite(pos), pos, 0.0)  # NaN in, a finite (edge) value out: callers validate inputs
-    i = pos.astype(int)
+    else:
+        pos = np.clip((np.asarray(x, dtype=float) - grid[0]) / h, 0.0, grid.size - 1.000001)
+        pos = np.where(np.isfinite(pos), pos, 0.0)  # NaN in, a finite (edge) value out: callers validate inputs
+        i = pos.astype(int)
     u = pos - i
     u2 = u * u
     u3 = u2 * u
