@@ -32,7 +32,7 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from . import constants as c
-from .components import condenser, ejector, feed_pump, hose, pot, tub, tub_solvent
+from .components import apparatus, condenser, ejector, feed_pump, hose, pot, tub, tub_solvent
 from .properties import fluid, ice
 from .properties.tabulated import FluidTable, _Row, _row, build_table, hermite
 from .scenario import Scenario
@@ -495,7 +495,7 @@ def rhs(t: float, y: np.ndarray, rig: Rig, controls: Controls) -> np.ndarray:
     if controls.vented:
         dy[P] = 0.0
     else:
-        dy[P] = (f.gas_load_pa_m3_s - f.effective_speed_m3_s * (y[P] - f.floor_pressure_pa)) / rig.volume
+        dy[P] = apparatus.pressure_rate(rig.volume, f.gas_load_pa_m3_s, f.effective_speed_m3_s, y[P], f.floor_pressure_pa)
     dy[T] = (f.pump_heat_w + f.room_heat_w + f.vapor_heat_w - f.melt_heat_w - f.meltwater_heat_w) / f.heat_capacity_j_k
     dy[ICE] = -f.melt_rate_kg_s
     dy[WATER] = f.melt_rate_kg_s

@@ -9,6 +9,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from vacsim import constants as c
+from vacsim.components import apparatus
 from vacsim.model import build_rig
 from vacsim.scenario import build_scenario, load_scenario, read_raw, set_key
 from vacsim.simulation import simulate
@@ -49,6 +50,7 @@ def test_closed_form_pumpdown():
     for p_mbar, t_expected in [(500, 9.7), (100, 34.1), (50, 48.2)]:
         t_hit = np.interp(-p_mbar * 100.0, -r.series["pressure_pa"], t)
         assert t_hit == pytest.approx(t_expected, abs=0.06)
+        assert apparatus.pumpdown_time(2.0e-3, speed, 101325.0, p_mbar * 100.0, 2339.3) == pytest.approx(t_expected, abs=0.05)
 
 
 @pytest.fixture(scope="module")

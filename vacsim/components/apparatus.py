@@ -55,21 +55,3 @@ def pumpdown_time(volume, speed, initial_pressure, pressure, ultimate_pressure=0
         Time [s].
     """
     return volume / speed * np.log((initial_pressure - ultimate_pressure) / (np.asarray(pressure) - ultimate_pressure))
-
-
-def leak_from_rate_of_rise(volume, rate_of_rise):
-    """Leak throughput from a rate-of-rise test: Q = V dp/dt (EN 13184, pressure-change method).
-
-    Parameters
-    ----------
-    volume : float
-        Isolated volume [m^3].
-    rate_of_rise : float
-        Pressure rise rate [Pa/s].
-
-    Returns
-    -------
-    float
-        Throughput [Pa m^3/s].
-    """
-    return volume * rate_of_rise
