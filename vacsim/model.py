@@ -265,10 +265,8 @@ DEFAULT_DEGASSING_RATE = 1.0 / 60.0  # 1/s, k_La of a stirred/boiling pot (estim
 def _build_distillation(s: Scenario, table: FluidTable, assumptions: list) -> Distillation | None:
     if s.pot is None and s.condenser is None and s.trap is None:
         return None
-    import warnings
-
     from .properties import air, solvents
-    from .properties._validity import OutOfRangeWarning
+    from .properties._validity import quiet_ranges
 
     name = s.distillate
     if name is None:
@@ -287,8 +285,7 @@ def _build_distillation(s: Scenario, table: FluidTable, assumptions: list) -> Di
     pot_pv = float(solvents.vapor_pressure(comp, pot.temperature)) if pot is not None and pot.temperature is not None else None
     trap_pv = float(solvents.vapor_pressure(comp, s.trap.temperature)) if s.trap is not None else math.inf
     grid = table.temperatures
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore", OutOfRangeWarning)
+    with quiet_ranges():
         vap_row = _row(grid, solvents.vapor_pressure(comp, grid))
         henry_row = _row(grid, solvents.henry_solubility(comp, grid)) if comp.henry_hcp is not None else None
         latent = float(solvents.latent_heat_vaporization(comp, s.initial_tub_temperature))

@@ -11,6 +11,7 @@ from scipy.optimize import brentq
 from . import constants as c
 from .components import ejector
 from .errors import SolverError
+from .properties._validity import quiet_ranges
 from .model import ICE, ICE_GONE_KG, P, STATE, WATER, Controls, Rig, apply_entry, build_rig, fluxes, initial_controls, initial_state, rhs
 from .results import RunResult, Warning_, summarise
 from .scenario import Scenario
@@ -187,7 +188,7 @@ def simulate(
     if s.target is not None and s.target.compound is not None:
         from .properties import solvents
 
-        with np.errstate(all="ignore"), _quiet_ranges():
+        with np.errstate(all="ignore"), quiet_ranges():
             series["target_boiling_temperature_k"] = np.asarray(solvents.boiling_temperature(s.target.compound, series["pressure_pa"]), dtype=float)
     if rig.distillation is not None:
         _distillation_warnings(s, rig, time, series, warnings)
@@ -201,25 +202,6 @@ def simulate(
         resumes=resumes, pump_on_at_start=ctl0.pump_on and not ctl0.vented,
     )
     return RunResult(scenario=s, time_s=time, series=series, summary=summary, solver={"method": method, **stats})
-
-
-def _quiet_ranges():
-    import warnings as _w
-
-    from .properties._validity import OutOfRangeWarning
-
-    ctx = _w.catch_warnings()
-    ctx.__enter__()
-    _w.simplefilter("ignore", OutOfRangeWarning)
-
-    class _Exit:
-        def __enter__(self):
-            return self
-
-        def __exit__(self, *exc):
-            ctx.__exit__(*exc)
-
-    return _Exit()
 
 
 # Share of the lower flammability limit above which vapor in the tub's headspace is flagged:
@@ -254,7 +236,7 @@ def _distillation_warnings(s: Scenario, rig: Rig, time, series, warnings: list) 
         p_fail = float(np.interp(t_fail, time, p))
         coolant = s.condenser.coolant_temperature if s.condenser else s.trap.temperature
         floor = float(np.min(series["floor_pressure_pa"]))
-        with _quiet_ranges():
+        with quiet_ranges():
             t_floor = float(solvents.boiling_temperature(comp, floor)) - c.ZERO_CELSIUS
             target = target_pressure(s)
             t_target = float(solvents.boiling_temperature(comp, target)) - c.ZERO_CELSIUS if target else None

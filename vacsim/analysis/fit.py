@@ -35,7 +35,6 @@ from __future__ import annotations
 
 import math
 import re
-import warnings as _warnings
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -560,10 +559,9 @@ class _Evaluator:
         boil = None
         if self.obs.compound is not None:
             from ..properties import solvents
-            from ..properties._validity import OutOfRangeWarning
+            from ..properties._validity import quiet_ranges
 
-            with _warnings.catch_warnings(), np.errstate(all="ignore"):
-                _warnings.simplefilter("ignore", OutOfRangeWarning)
+            with quiet_ranges(), np.errstate(all="ignore"):
                 boil = np.asarray(solvents.boiling_temperature(self.obs.compound, p), dtype=float)
         return Curves(time_s=t, pressure_pa=p, boiling_temperature_k=boil, tub_temperature_k=temp)
 

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import warnings
+from contextlib import contextmanager
 
 import numpy as np
 
@@ -31,3 +32,12 @@ def check_range(name: str, value, low: float, high: float, unit: str = "") -> No
 def reset_warnings() -> None:
     """Forget which correlations have warned (for tests)."""
     _warned.clear()
+
+
+@contextmanager
+def quiet_ranges():
+    """Silence OutOfRangeWarning inside the block, for deliberate extrapolation (tables that
+    reach past a correlation's range on purpose, derived series)."""
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", OutOfRangeWarning)
+        yield

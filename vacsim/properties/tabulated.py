@@ -11,14 +11,13 @@ linearly in mass fraction.
 from __future__ import annotations
 
 import math
-import warnings
 from dataclasses import dataclass
 
 import numpy as np
 
 from .. import constants as c
 from . import air, fluid, ice
-from ._validity import OutOfRangeWarning
+from ._validity import quiet_ranges
 
 TEMPERATURE_STEP = 0.1  # K
 FRACTION_STEPS = 24
@@ -138,9 +137,7 @@ def build_table(glycol: str, max_fraction: float, t_max: float = c.ZERO_CELSIUS 
     t_f = np.array([float(fluid.freezing_point(glycol, w)) for w in fractions])
     t_min = float(t_f.min()) - 2.0
     temperatures = np.arange(t_min, t_max + TEMPERATURE_STEP, TEMPERATURE_STEP)
-    with warnings.catch_warnings():
-        # the table reaches a little past the correlations' ranges on purpose (below T_f)
-        warnings.simplefilter("ignore", OutOfRangeWarning)
+    with quiet_ranges():  # the table reaches a little past the correlations' ranges on purpose (below T_f)
         w_col = fractions[:, None]
         vp = np.asarray(fluid.vapor_pressure(glycol if fractions.size > 1 else "none", w_col if fractions.size > 1 else 0.0, temperatures[None, :]), dtype=float)
         cp = np.asarray(fluid.heat_capacity(glycol if fractions.size > 1 else "none", w_col if fractions.size > 1 else 0.0, temperatures[None, :]), dtype=float)

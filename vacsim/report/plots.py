@@ -2,13 +2,12 @@
 
 from __future__ import annotations
 
-from pathlib import Path
 
 import numpy as np
 
 from .. import constants as c
 from ..units import PRESSURE_LABELS, pressure_in
-from .files import save_figure_atomic, save_figures
+from .files import save_figures
 
 PRESSURE_COLOR = "#1f4e79"
 FLOOR_COLOR = "#b8860b"
